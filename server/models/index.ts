@@ -1,0 +1,212 @@
+import { DataTypes, Model } from 'sequelize'
+import type { CreationOptional, ForeignKey, InferAttributes, InferCreationAttributes, Sequelize } from 'sequelize'
+
+// Sequelize models mirror the tables that server/migrations create; migrations own the schema,
+// models never call sync(). Model classes stay on the server: the client sees types from shared/.
+
+export class Workspace extends Model<InferAttributes<Workspace>, InferCreationAttributes<Workspace>> {
+  declare id: CreationOptional<number>
+  declare name: string
+  declare contactPhone: string | null
+  declare contactEmail: string | null
+  declare address: string | null
+  declare licenceNumber: string | null
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class Client extends Model<InferAttributes<Client>, InferCreationAttributes<Client>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: ForeignKey<number>
+  declare name: string
+  declare contactName: string | null
+  declare reportEmail: string
+  declare phone: string | null
+  declare reinspectIntervalMonths: CreationOptional<number>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare clientId: number | null
+  declare email: string
+  declare name: string
+  declare role: 'admin' | 'officer' | 'installer' | 'manager'
+  declare passwordHash: string | null
+  declare active: CreationOptional<boolean>
+  declare lastSignInAt: Date | null
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class Site extends Model<InferAttributes<Site>, InferCreationAttributes<Site>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare clientId: number
+  declare ref: string
+  declare name: string
+  declare address: string
+  declare jurisdiction: 'AU' | 'CA' | 'US' | 'EU'
+  declare premises: string
+  declare notes: string | null
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<Unit>> {
+  declare id: CreationOptional<number>
+  declare siteId: number
+  declare ref: string
+  declare name: string | null
+  declare floor: string | null
+  declare notes: string | null
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class Opening extends Model<InferAttributes<Opening>, InferCreationAttributes<Opening>> {
+  declare id: CreationOptional<number>
+  declare siteId: number
+  declare unitId: number
+  declare ref: string
+  declare room: string
+  declare kind: CreationOptional<'window' | 'door' | 'other'>
+  declare childrensRoom: CreationOptional<boolean>
+  declare recessWidthMm: number | null
+  declare recessHeightMm: number | null
+  declare notes: string | null
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class Covering extends Model<InferAttributes<Covering>, InferCreationAttributes<Covering>> {
+  declare id: CreationOptional<number>
+  declare siteId: number
+  declare openingId: number
+  declare ref: string
+  declare productType: string
+  declare control: string
+  declare madeTo: string | null
+  declare mount: 'inside' | 'outside' | null
+  declare fixing: 'top' | 'face' | null
+  declare controlSide: 'left' | 'right' | 'centre' | null
+  declare widthMm: number | null
+  declare dropMm: number | null
+  declare makerModel: string | null
+  declare manufacturedOn: string | null
+  declare installedOn: string | null
+  declare status: CreationOptional<'in_place' | 'removed'>
+  declare lastInspectionId: CreationOptional<number | null>
+  declare lastVerdict: CreationOptional<string | null>
+  declare lastInspectedAt: CreationOptional<Date | null>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class Inspection extends Model<InferAttributes<Inspection>, InferCreationAttributes<Inspection>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare siteId: number
+  declare coveringId: number
+  declare kind: 'fitting' | 'audit' | 'import' | 'correction'
+  declare inspectedAt: Date
+  declare inspectorId: number | null
+  declare record: Record<string, unknown>
+  declare rulesVersion: string
+  declare verdict: string
+  declare notes: string | null
+  declare correctsId: number | null
+  declare createdAt: CreationOptional<Date>
+}
+
+export class Finding extends Model<InferAttributes<Finding>, InferCreationAttributes<Finding>> {
+  declare id: CreationOptional<number>
+  declare inspectionId: number
+  declare clause: string
+  declare verdict: string
+  declare measured: string | null
+  declare limitValue: string | null
+  declare unit: string | null
+  declare field: string | null
+  declare source: string
+  declare basis: string
+  declare message: string
+  declare fix: string | null
+}
+
+export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes<Photo>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare siteId: number
+  declare coveringId: number
+  declare kind: 'whole' | 'tension_device' | 'cleat' | 'labels' | 'defect'
+  declare objectKey: string
+  declare thumbKey: string | null
+  declare contentType: string
+  declare sizeBytes: number
+  declare sha256: string
+  declare capturedAt: Date | null
+  declare uploadedBy: number
+  declare createdAt: CreationOptional<Date>
+}
+
+export class ActivityEntry extends Model<InferAttributes<ActivityEntry>, InferCreationAttributes<ActivityEntry>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare userId: number | null
+  declare action: string
+  declare entity: string
+  declare entityId: number | null
+  declare detail: CreationOptional<Record<string, unknown>>
+  declare at: CreationOptional<Date>
+}
+
+// Sequelize writes into attribute definitions, so each column gets a fresh object.
+const id = () => ({ type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true })
+const ref = () => ({ type: DataTypes.TEXT, allowNull: false })
+const text = () => ({ type: DataTypes.TEXT })
+const int = () => ({ type: DataTypes.INTEGER })
+const stamps = () => ({ createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE })
+
+export function initModels(sequelize: Sequelize) {
+  const base = { sequelize, underscored: true }
+  Workspace.init({ id: id(), name: ref(), contactPhone: text(), contactEmail: text(), address: text(), licenceNumber: text(), ...stamps() },
+    { ...base, tableName: 'workspaces' })
+  Client.init({ id: id(), workspaceId: int(), name: ref(), contactName: text(), reportEmail: ref(), phone: text(),
+    reinspectIntervalMonths: int(), ...stamps() }, { ...base, tableName: 'clients' })
+  User.init({ id: id(), workspaceId: int(), clientId: int(), email: ref(), name: ref(), role: ref(), passwordHash: text(),
+    active: DataTypes.BOOLEAN, lastSignInAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'users' })
+  Site.init({ id: id(), workspaceId: int(), clientId: int(), ref: ref(), name: ref(), address: ref(), jurisdiction: ref(), premises: ref(),
+    notes: text(), ...stamps() }, { ...base, tableName: 'sites' })
+  Unit.init({ id: id(), siteId: int(), ref: ref(), name: text(), floor: text(), notes: text(), ...stamps() }, { ...base, tableName: 'units' })
+  Opening.init({ id: id(), siteId: int(), unitId: int(), ref: ref(), room: ref(), kind: text(), childrensRoom: DataTypes.BOOLEAN,
+    recessWidthMm: int(), recessHeightMm: int(), notes: text(), ...stamps() }, { ...base, tableName: 'openings' })
+  Covering.init({ id: id(), siteId: int(), openingId: int(), ref: ref(), productType: ref(), control: ref(), madeTo: text(), mount: text(),
+    fixing: text(), controlSide: text(), widthMm: int(), dropMm: int(), makerModel: text(), manufacturedOn: text(),
+    installedOn: DataTypes.DATEONLY, status: text(), lastInspectionId: int(), lastVerdict: text(),
+    lastInspectedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'coverings' })
+  Inspection.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), inspectedAt: DataTypes.DATE,
+    inspectorId: int(), record: DataTypes.JSONB, rulesVersion: ref(), verdict: ref(), notes: text(), correctsId: int(),
+    createdAt: DataTypes.DATE }, { ...base, tableName: 'inspections', updatedAt: false })
+  Finding.init({ id: id(), inspectionId: int(), clause: ref(), verdict: ref(), measured: text(), limitValue: text(), unit: text(),
+    field: text(), source: ref(), basis: ref(), message: ref(), fix: text() }, { ...base, tableName: 'findings', timestamps: false })
+  Photo.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), objectKey: ref(), thumbKey: text(),
+    contentType: ref(), sizeBytes: int(), sha256: ref(), capturedAt: DataTypes.DATE, uploadedBy: int(),
+    createdAt: DataTypes.DATE }, { ...base, tableName: 'photos', updatedAt: false })
+  ActivityEntry.init({ id: { ...id(), type: DataTypes.BIGINT }, workspaceId: int(), userId: int(), action: ref(), entity: ref(),
+    entityId: int(), detail: DataTypes.JSONB, at: DataTypes.DATE }, { ...base, tableName: 'activity_log', timestamps: false })
+
+  Client.hasMany(Site, { foreignKey: 'clientId' })
+  Site.belongsTo(Client, { foreignKey: 'clientId' })
+  Site.hasMany(Unit, { foreignKey: 'siteId' })
+  Unit.belongsTo(Site, { foreignKey: 'siteId' })
+  Unit.hasMany(Opening, { foreignKey: 'unitId' })
+  Opening.belongsTo(Unit, { foreignKey: 'unitId' })
+  Opening.hasMany(Covering, { foreignKey: 'openingId' })
+  Covering.belongsTo(Opening, { foreignKey: 'openingId' })
+  Covering.hasMany(Inspection, { foreignKey: 'coveringId' })
+  Inspection.hasMany(Finding, { foreignKey: 'inspectionId' })
+  Inspection.belongsTo(User, { foreignKey: 'inspectorId', as: 'inspector' })
+}

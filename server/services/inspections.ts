@@ -1,0 +1,79 @@
+import type { Sequelize, Transaction } from 'sequelize'
+import { checkRecord, coveringRecordSchema } from '../../rules'
+import type { CheckResult, CoveringRecord } from '../../rules'
+import { Covering, Finding, Inspection } from '../models'
+import type { Site } from '../models'
+import { logActivity } from './activity'
+
+export type InspectionKind = 'fitting' | 'audit' | 'import' | 'correction'
+
+/** The rulebook record for a covering: register data plus the measurements taken on this visit. */
+export function rulebookInput(site: Pick<Site, 'jurisdiction' | 'premises'>, covering: Pick<Covering, 'ref' | 'productType' | 'control' | 'madeTo' | 'manufacturedOn' | 'installedOn'>, measurements: Record<string, unknown>) {
+  return {
+    ...measurements,
+    ref: covering.ref,
+    jurisdiction: site.jurisdiction,
+    premises: site.premises,
+    productType: covering.productType,
+    control: covering.control,
+    madeTo: covering.madeTo,
+    manufacturedOn: covering.manufacturedOn,
+    installedOn: covering.installedOn,
+  }
+}
+
+export class RecordInvalidError extends Error {
+  constructor(message: string, readonly fields: Record<string, string>) { super(message) }
+}
+
+export function parseRecord(input: unknown): CoveringRecord {
+  const parsed = coveringRecordSchema.safeParse(input)
+  if (parsed.success) return parsed.data
+  const fields: Record<string, string> = {}
+  for (const issue of parsed.error.issues) fields[issue.path.join('.') || '_'] ??= issue.message
+  const [first] = Object.entries(fields)
+  throw new RecordInvalidError(first ? `${first[0]}: ${first[1]}` : 'record is not valid', fields)
+}
+
+function asText(v: unknown): string | null {
+  return v === null || v === undefined ? null : String(v)
+}
+
+/**
+ * Saves one inspection with every finding, and points the covering at it, in one transaction.
+ * Inspections and findings are evidence: they are only ever inserted.
+ */
+export async function recordInspection(db: Sequelize, args: {
+  workspaceId: number
+  site: Site
+  covering: Covering
+  kind: InspectionKind
+  inspectorId: number | null
+  inspectedAt: Date
+  measurements: Record<string, unknown>
+  notes?: string | null
+  correctsId?: number | null
+}, outer?: Transaction): Promise<{ inspection: Inspection, result: CheckResult }> {
+  const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements))
+  const result = checkRecord(record, { today: args.inspectedAt.toISOString().slice(0, 10) })
+  const work = async (transaction: Transaction) => {
+    const inspection = await Inspection.create({
+      workspaceId: args.workspaceId, siteId: args.site.id, coveringId: args.covering.id, kind: args.kind,
+      inspectedAt: args.inspectedAt, inspectorId: args.inspectorId, record: record as unknown as Record<string, unknown>,
+      rulesVersion: result.rulesVersion, verdict: result.verdict, notes: args.notes ?? null, correctsId: args.correctsId ?? null,
+    }, { transaction })
+    await Finding.bulkCreate(result.findings.map(f => ({
+      inspectionId: inspection.id, clause: f.clause, verdict: f.verdict, measured: asText(f.measured), limitValue: asText(f.limit),
+      unit: f.unit ?? null, field: f.field ?? null, source: f.source, basis: f.basis, message: f.message, fix: f.fix ?? null,
+    })), { transaction })
+    const newer = args.covering.lastInspectedAt && args.covering.lastInspectedAt > args.inspectedAt
+    if (!newer) {
+      await Covering.update({ lastInspectionId: inspection.id, lastVerdict: result.verdict, lastInspectedAt: args.inspectedAt },
+        { where: { id: args.covering.id }, transaction })
+    }
+    await logActivity({ workspaceId: args.workspaceId, userId: args.inspectorId, action: `inspection.${args.kind}`, entity: 'covering', entityId: args.covering.id,
+      detail: { inspectionId: inspection.id, verdict: result.verdict, rulesVersion: result.rulesVersion } }, transaction)
+    return { inspection, result }
+  }
+  return outer ? work(outer) : db.transaction(work)
+}

@@ -1,0 +1,20 @@
+import type { ZodType } from 'zod'
+
+/**
+ * A validator for h3's readValidatedBody / getValidatedQuery / getValidatedRouterParams.
+ * A failure becomes a 400 whose message names the first bad field and whose data lists every field.
+ */
+export function validateWith<T>(schema: ZodType<T>) {
+  return (input: unknown): T => {
+    const result = schema.safeParse(input ?? {})
+    if (result.success) return result.data
+    const fields: Record<string, string> = {}
+    for (const issue of result.error.issues) {
+      const path = issue.path.map(String).join('.') || '_'
+      fields[path] ??= issue.message
+    }
+    const [first] = Object.entries(fields)
+    // h3 turns a thrown value into a 400 "Validation Error" with it as data.
+    throw { message: first ? (first[1].startsWith(first[0]) ? first[1] : `${first[0]}: ${first[1]}`) : 'invalid input', fields }
+  }
+}

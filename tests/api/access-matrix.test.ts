@@ -1,0 +1,163 @@
+import { readdirSync } from 'node:fs'
+import { join, relative } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type pg from 'pg'
+import { ApiClient, accounts, database, fixtureIds, signIn } from '../support/api'
+
+// Built from the files under server/api: a new route with no entry here, or with no guard, fails.
+type Role = 'admin' | 'officer' | 'installer' | 'manager'
+type Param = 'site' | 'unit' | 'opening' | 'covering' | 'client' | 'user' | 'mailName'
+interface Policy {
+  public?: true
+  roles?: Role[]
+  param?: Param
+  body?: unknown
+  // Ends the session: each call gets a fresh sign-in.
+  endsSession?: true
+}
+const everyone: Role[] = ['admin', 'officer', 'installer', 'manager']
+const staff: Role[] = ['admin', 'officer', 'installer']
+const office: Role[] = ['admin', 'officer']
+
+const policies: Record<string, Policy> = {
+  'GET /api/health': { public: true },
+  'POST /api/auth/login': { public: true },
+  'POST /api/auth/reset-request': { public: true },
+  'POST /api/auth/reset': { public: true },
+  'POST /api/auth/accept-invite': { public: true },
+  'POST /api/auth/logout': { roles: everyone, endsSession: true },
+  'GET /api/me': { roles: everyone },
+  'GET /api/users': { roles: ['admin'] },
+  'POST /api/users': { roles: ['admin'] },
+  'PATCH /api/users/:id': { roles: ['admin'], param: 'user' },
+  'GET /api/clients': { roles: everyone },
+  'POST /api/clients': { roles: office },
+  'GET /api/clients/:id': { roles: everyone, param: 'client' },
+  'PATCH /api/clients/:id': { roles: office, param: 'client' },
+  'GET /api/sites': { roles: everyone },
+  'POST /api/sites': { roles: office },
+  'GET /api/sites/:id': { roles: everyone, param: 'site' },
+  'PATCH /api/sites/:id': { roles: office, param: 'site' },
+  'GET /api/units': { roles: everyone },
+  'POST /api/units': { roles: staff },
+  'GET /api/units/:id': { roles: everyone, param: 'unit' },
+  'PATCH /api/units/:id': { roles: staff, param: 'unit' },
+  'GET /api/openings': { roles: everyone },
+  'POST /api/openings': { roles: staff },
+  'GET /api/openings/:id': { roles: everyone, param: 'opening' },
+  'PATCH /api/openings/:id': { roles: staff, param: 'opening' },
+  'GET /api/coverings': { roles: everyone },
+  'POST /api/coverings': { roles: staff },
+  'GET /api/coverings/:id': { roles: everyone, param: 'covering' },
+  'PATCH /api/coverings/:id': { roles: staff, param: 'covering' },
+  'GET /api/activity': { roles: office },
+  'GET /api/dev/mail': { roles: ['admin'] },
+  'GET /api/dev/mail/:name': { roles: ['admin'], param: 'mailName' },
+  'GET /api/rules': { roles: everyone },
+  'POST /api/checks': { roles: everyone },
+}
+
+function routeFiles(dir: string): Array<{ file: string, key: string }> {
+  const out: Array<{ file: string, key: string }> = []
+  const walk = (d: string) => {
+    for (const e of readdirSync(d, { withFileTypes: true })) {
+      const p = join(d, e.name)
+      if (e.isDirectory()) { walk(p); continue }
+      const rel = relative(dir, p).replace(/\\/g, '/')
+      const m = rel.match(/^(.*)\.(get|post|patch|put|delete)\.ts$/)
+      if (!m) { out.push({ file: rel, key: `NO-METHOD ${rel}` }); continue }
+      const path = `/api/${m[1]!}`.replace(/\/index$/, '').replace(/\[(\w+)\]/g, ':$1')
+      out.push({ file: rel, key: `${m[2]!.toUpperCase()} ${path}` })
+    }
+  }
+  walk(dir)
+  return out.sort((a, b) => a.key.localeCompare(b.key))
+}
+
+const routes = routeFiles(join(process.cwd(), 'server/api'))
+let db: pg.Client
+let ids: Awaited<ReturnType<typeof fixtureIds>>
+const clients: Partial<Record<Role, ApiClient>> = {}
+
+beforeAll(async () => {
+  db = await database()
+  ids = await fixtureIds(db)
+  for (const role of everyone) clients[role] = await signIn(accounts[role])
+})
+afterAll(async () => { await db?.end() })
+
+function pathFor(key: string, param: Param | undefined, which: 'own' | 'other' | 'clientTwo') {
+  const [, path] = key.split(' ') as [string, string]
+  if (!param) return path
+  if (param === 'mailName') return path.replace(':name', which === 'own' ? 'no-such-message.eml' : '..%2F..%2Fsecret.eml')
+  const table = ids[which] as Record<string, number>
+  const id = table[param] ?? ids.other[param as keyof typeof ids.other]
+  return path.replace(':id', String(id))
+}
+
+async function call(role: Role | null, key: string, path: string, policy: Policy) {
+  const method = key.split(' ')[0]!
+  const client = role ? (policy.endsSession ? await signIn(accounts[role]) : clients[role]!) : new ApiClient()
+  return client.request(method, path, method === 'GET' ? undefined : (policy.body ?? {}))
+}
+
+describe('access matrix: every file under server/api', () => {
+  it('has a policy for every route file, and every file names its method', () => {
+    const missing = routes.filter(r => !policies[r.key]).map(r => `${r.key} (server/api/${r.file})`)
+    expect(missing, 'add these routes to the access matrix with their roles').toEqual([])
+    expect(routes.length).toBeGreaterThanOrEqual(30)
+  })
+
+  for (const { key } of routes) {
+    const policy = policies[key]
+    if (!policy) continue
+    describe(key, () => {
+      it(policy.public ? 'answers anonymous callers (public)' : 'refuses anonymous callers with 401', async () => {
+        const r = await call(null, key, pathFor(key, policy.param, 'own'), policy)
+        if (policy.public) expect(r.status).not.toBe(401)
+        else expect(r.status, JSON.stringify(r.body)).toBe(401)
+      })
+      if (policy.public) return
+      it('lets each allowed role past the guard and refuses the others with 403', async () => {
+        for (const role of everyone) {
+          const r = await call(role, key, pathFor(key, policy.param, 'own'), policy)
+          if (policy.roles!.includes(role)) {
+            expect([401, 403], `${role} on ${key}: ${JSON.stringify(r.body)}`).not.toContain(r.status)
+            expect(r.status, `${role} on ${key}`).toBeLessThan(500)
+          }
+          else {
+            expect(r.status, `${role} on ${key}: ${JSON.stringify(r.body)}`).toBe(403)
+          }
+        }
+      })
+      if (policy.param && policy.param !== 'mailName') {
+        it('answers 404 for another workspace\'s record, and a manager for another client\'s', async () => {
+          for (const role of policy.roles!) {
+            const other = await call(role, key, pathFor(key, policy.param, 'other'), policy)
+            expect(other.status, `${role} on another workspace's ${policy.param}`).toBe(404)
+            if (role === 'manager' && policy.param !== 'user') {
+              const two = await call(role, key, pathFor(key, policy.param, 'clientTwo'), policy)
+              expect(two.status, `manager on client two's ${policy.param}`).toBe(404)
+            }
+          }
+        })
+      }
+      if (key.startsWith('GET') && !policy.param && ['sites', 'units', 'openings', 'coverings', 'clients'].some(r => key.endsWith(`/api/${r}`))) {
+        it('lists nothing from another workspace, and a manager nothing from another client', async () => {
+          for (const role of policy.roles!) {
+            const r = await call(role, key, `${pathFor(key, undefined, 'own')}?pageSize=100`, policy)
+            expect(r.status).toBe(200)
+            const found = (r.body.items as Array<{ id: number, siteId?: number, clientId?: number }>)
+            const resource = key.split('/').pop() as string
+            const otherId = { sites: ids.other.site, units: ids.other.unit, openings: ids.other.opening, coverings: ids.other.covering, clients: ids.other.client }[resource]!
+            expect(found.some(i => i.id === otherId), `${role} sees another workspace in ${key}`).toBe(false)
+            if (role === 'manager') {
+              const twoId = { sites: ids.clientTwo.site, units: ids.clientTwo.unit, openings: ids.clientTwo.opening, coverings: ids.clientTwo.covering, clients: ids.clientTwo.client }[resource]!
+              expect(found.some(i => i.id === twoId), `manager sees client two in ${key}`).toBe(false)
+            }
+          }
+        })
+      }
+    })
+  }
+})
