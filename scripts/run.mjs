@@ -284,8 +284,28 @@ async function start() {
   server.on('exit', code => process.exit(code ?? 0))
 }
 
+// One test run at a time on a machine: runs share the test ports and rebuild .data/test.
+async function takeTestLock() {
+  const lock = join(root, '.data', 'test.lock')
+  mkdirSync(dirname(lock), { recursive: true })
+  let told = false
+  for (;;) {
+    try {
+      writeFileSync(lock, String(process.pid), { flag: 'wx' })
+      process.on('exit', () => rmSync(lock, { force: true }))
+      return
+    }
+    catch {
+      if (!pidAlive(lock)) { rmSync(lock, { force: true }); continue }
+      if (!told) { log('another test run is in progress here; waiting for it to finish'); told = true }
+      await new Promise(r => setTimeout(r, 2000))
+    }
+  }
+}
+
 async function test() {
   checkNode()
+  await takeTestLock()
   ensurePackages()
   if (!existsSync('/usr/bin/chromium')) aptInstall(['chromium'], 'Chromium for the browser tests')
   if (!has('pdftotext') || !has('pdftoppm')) aptInstall(['poppler-utils'], 'pdftotext for the report tests')
