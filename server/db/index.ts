@@ -3,6 +3,7 @@ import { Sequelize } from 'sequelize'
 import { Umzug, SequelizeStorage } from 'umzug'
 import { initModels } from '../models'
 import * as foundation from '../migrations/0001-foundation'
+import * as fitting from '../migrations/0002-fitting'
 
 // Plain module (no Nitro auto-imports) so scripts and the server share one way to connect.
 
@@ -30,6 +31,7 @@ export function createSequelize(url = databaseUrl(), options: { poolMax?: number
 // Migrations are listed here, in order, so that they travel inside the server bundle too.
 const migrations = [
   { name: '0001-foundation', ...foundation },
+  { name: '0002-fitting', ...fitting },
 ]
 
 export function migrator(sequelize: Sequelize) {

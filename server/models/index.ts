@@ -118,6 +118,7 @@ export class Inspection extends Model<InferAttributes<Inspection>, InferCreation
   declare verdict: string
   declare notes: string | null
   declare correctsId: number | null
+  declare clientKey: CreationOptional<string | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -149,6 +150,9 @@ export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes
   declare sha256: string
   declare capturedAt: Date | null
   declare uploadedBy: number
+  declare fileName: string | null
+  declare widthPx: number | null
+  declare heightPx: number | null
   declare createdAt: CreationOptional<Date>
 }
 
@@ -188,12 +192,12 @@ export function initModels(sequelize: Sequelize) {
     installedOn: DataTypes.DATEONLY, status: text(), lastInspectionId: int(), lastVerdict: text(),
     lastInspectedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'coverings' })
   Inspection.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), inspectedAt: DataTypes.DATE,
-    inspectorId: int(), record: DataTypes.JSONB, rulesVersion: ref(), verdict: ref(), notes: text(), correctsId: int(),
+    inspectorId: int(), record: DataTypes.JSONB, rulesVersion: ref(), verdict: ref(), notes: text(), correctsId: int(), clientKey: text(),
     createdAt: DataTypes.DATE }, { ...base, tableName: 'inspections', updatedAt: false })
   Finding.init({ id: id(), inspectionId: int(), clause: ref(), verdict: ref(), measured: text(), limitValue: text(), unit: text(),
     field: text(), source: ref(), basis: ref(), message: ref(), fix: text() }, { ...base, tableName: 'findings', timestamps: false })
   Photo.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), objectKey: ref(), thumbKey: text(),
-    contentType: ref(), sizeBytes: int(), sha256: ref(), capturedAt: DataTypes.DATE, uploadedBy: int(),
+    contentType: ref(), sizeBytes: int(), sha256: ref(), capturedAt: DataTypes.DATE, uploadedBy: int(), fileName: text(), widthPx: int(), heightPx: int(),
     createdAt: DataTypes.DATE }, { ...base, tableName: 'photos', updatedAt: false })
   ActivityEntry.init({ id: { ...id(), type: DataTypes.BIGINT }, workspaceId: int(), userId: int(), action: ref(), entity: ref(),
     entityId: int(), detail: DataTypes.JSONB, at: DataTypes.DATE }, { ...base, tableName: 'activity_log', timestamps: false })

@@ -53,6 +53,7 @@ export async function recordInspection(db: Sequelize, args: {
   measurements: Record<string, unknown>
   notes?: string | null
   correctsId?: number | null
+  clientKey?: string | null
 }, outer?: Transaction): Promise<{ inspection: Inspection, result: CheckResult }> {
   const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements))
   const result = checkRecord(record, { today: args.inspectedAt.toISOString().slice(0, 10) })
@@ -60,7 +61,7 @@ export async function recordInspection(db: Sequelize, args: {
     const inspection = await Inspection.create({
       workspaceId: args.workspaceId, siteId: args.site.id, coveringId: args.covering.id, kind: args.kind,
       inspectedAt: args.inspectedAt, inspectorId: args.inspectorId, record: record as unknown as Record<string, unknown>,
-      rulesVersion: result.rulesVersion, verdict: result.verdict, notes: args.notes ?? null, correctsId: args.correctsId ?? null,
+      rulesVersion: result.rulesVersion, verdict: result.verdict, notes: args.notes ?? null, correctsId: args.correctsId ?? null, clientKey: args.clientKey ?? null,
     }, { transaction })
     await Finding.bulkCreate(result.findings.map(f => ({
       inspectionId: inspection.id, clause: f.clause, verdict: f.verdict, measured: asText(f.measured), limitValue: asText(f.limit),

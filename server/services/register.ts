@@ -9,7 +9,7 @@ import type { Actor } from './scope'
 
 interface Page { page: number, pageSize: number, sort: string, q?: string }
 
-async function paged<T>(db: Sequelize, select: string, from: string, where: string[], order: string,
+async function paged<T extends object>(db: Sequelize, select: string, from: string, where: string[], order: string,
   replacements: Record<string, unknown>, p: Page): Promise<ListResult<T>> {
   const whereSql = where.length ? `WHERE ${where.join(' AND ')}` : ''
   const [items, [count]] = await Promise.all([

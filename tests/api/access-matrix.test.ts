@@ -3,10 +3,11 @@ import { join, relative } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type pg from 'pg'
 import { ApiClient, accounts, database, fixtureIds, signIn } from '../support/api'
+import { uploadPhoto } from '../support/photos'
 
 // Built from the files under server/api: a new route with no entry here, or with no guard, fails.
 type Role = 'admin' | 'officer' | 'installer' | 'manager'
-type Param = 'site' | 'unit' | 'opening' | 'covering' | 'client' | 'user' | 'mailName'
+type Param = 'site' | 'unit' | 'opening' | 'covering' | 'client' | 'user' | 'photo' | 'mailName'
 interface Policy {
   public?: true
   roles?: Role[]
@@ -53,6 +54,11 @@ const policies: Record<string, Policy> = {
   'GET /api/activity': { roles: office },
   'GET /api/dev/mail': { roles: ['admin'] },
   'GET /api/dev/mail/:name': { roles: ['admin'], param: 'mailName' },
+  'GET /api/coverings/:id/photos': { roles: everyone, param: 'covering' },
+  'POST /api/coverings/:id/photos': { roles: staff, param: 'covering' },
+  'POST /api/coverings/:id/inspections': { roles: staff, param: 'covering', body: { measurements: {} } },
+  'GET /api/photos/:id': { roles: everyone, param: 'photo' },
+  'GET /api/photos/:id/thumb': { roles: everyone, param: 'photo' },
   'GET /api/rules': { roles: everyone },
   'POST /api/checks': { roles: everyone },
 }
@@ -76,13 +82,21 @@ function routeFiles(dir: string): Array<{ file: string, key: string }> {
 
 const routes = routeFiles(join(process.cwd(), 'server/api'))
 let db: pg.Client
-let ids: Awaited<ReturnType<typeof fixtureIds>>
+type Ids = Awaited<ReturnType<typeof fixtureIds>>
+let ids: { own: Ids['own'] & { photo: number }, clientTwo: Ids['clientTwo'] & { photo: number }, other: Ids['other'] & { photo: number } }
 const clients: Partial<Record<Role, ApiClient>> = {}
 
 beforeAll(async () => {
   db = await database()
-  ids = await fixtureIds(db)
+  const base = await fixtureIds(db)
   for (const role of everyone) clients[role] = await signIn(accounts[role])
+  // A photo on each side of every boundary, for the photo routes.
+  const otherAdmin = await signIn(accounts.otherAdmin)
+  ids = {
+    own: { ...base.own, photo: (await uploadPhoto(clients.officer!, base.own.covering)).id },
+    clientTwo: { ...base.clientTwo, photo: (await uploadPhoto(clients.officer!, base.clientTwo.covering)).id },
+    other: { ...base.other, photo: (await uploadPhoto(otherAdmin, base.other.covering)).id },
+  }
 })
 afterAll(async () => { await db?.end() })
 

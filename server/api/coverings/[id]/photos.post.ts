@@ -1,0 +1,32 @@
+import { z } from 'zod'
+import { idParamsSchema } from '#shared/schemas/common'
+import { Covering } from '../../../models'
+import { PHOTO_MAX_BYTES, PhotoRejectedError, photoJson, photoKinds, storePhoto } from '../../../services/photos'
+import { StorageUnavailableError } from '../../../services/storage'
+
+const kindSchema = z.enum(photoKinds, { error: `kind must be one of ${photoKinds.join(', ')}` })
+
+// multipart/form-data with `file` (the photo) and `kind`.
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, ['admin', 'officer', 'installer'])
+  const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
+  const { record: covering } = await requireInSite(event, Covering, id)
+  const declared = Number(getRequestHeader(event, 'content-length') ?? 0)
+  if (declared > PHOTO_MAX_BYTES + 64 * 1024) throw createError({ statusCode: 413, message: 'file: the photo is larger than 15 MB' })
+  const parts = await readMultipartFormData(event).catch(() => null)
+  if (!parts) throw createError({ statusCode: 400, message: 'file: send the photo as multipart/form-data with a `file` part', data: { fields: { file: 'missing' } } })
+  const file = parts.find(p => p.name === 'file' && p.filename !== undefined)
+  if (!file?.data.byteLength) throw createError({ statusCode: 400, message: 'file: no photo was attached', data: { fields: { file: 'missing' } } })
+  const kind = kindSchema.safeParse(parts.find(p => p.name === 'kind')?.data.toString('utf8'))
+  if (!kind.success) throw createError({ statusCode: 400, message: `kind: ${kind.error.issues[0]!.message}`, data: { fields: { kind: kind.error.issues[0]!.message } } })
+  try {
+    const photo = await storePhoto(useDb(), { actor: user, covering, kind: kind.data, data: file.data, fileName: file.filename ?? null })
+    setResponseStatus(event, 201)
+    return photoJson(photo)
+  }
+  catch (err) {
+    if (err instanceof PhotoRejectedError) throw createError({ statusCode: err.statusCode, message: err.message, data: { fields: { file: err.message } } })
+    if (err instanceof StorageUnavailableError) throw createError({ statusCode: 503, message: 'Photo storage is unreachable just now; nothing was saved. Try again in a moment.' })
+    throw err
+  }
+})

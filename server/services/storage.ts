@@ -1,0 +1,70 @@
+import { DeleteObjectCommand, GetObjectCommand, HeadBucketCommand, PutObjectCommand, S3Client } from '@aws-sdk/client-s3'
+import type { Readable } from 'node:stream'
+
+// Photos and thumbnails live in one S3 bucket (s3rver locally). Keys are made by the server only.
+let client: S3Client | undefined
+
+export function bucket(): string {
+  const b = process.env.S3_BUCKET
+  if (!b) throw new Error('S3_BUCKET is not set')
+  return b
+}
+
+export function s3(): S3Client {
+  client ??= new S3Client({
+    endpoint: process.env.S3_ENDPOINT,
+    region: process.env.S3_REGION ?? 'us-east-1',
+    forcePathStyle: process.env.S3_FORCE_PATH_STYLE === '1',
+    credentials: process.env.S3_ACCESS_KEY_ID
+      ? { accessKeyId: process.env.S3_ACCESS_KEY_ID, secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? '' }
+      : undefined,
+    // Fail fast when the store is down rather than hold the installer's request open.
+    requestHandler: { requestTimeout: 15_000, connectionTimeout: 3_000 },
+    maxAttempts: 2,
+  })
+  return client
+}
+
+export class StorageUnavailableError extends Error {}
+
+async function guarded<T>(work: () => Promise<T>): Promise<T> {
+  try {
+    return await work()
+  }
+  catch (err) {
+    const e = err as { name?: string, code?: string, $metadata?: { httpStatusCode?: number } }
+    if (e.name === 'NoSuchKey' || e.$metadata?.httpStatusCode === 404) throw err
+    throw new StorageUnavailableError(`photo storage is unreachable (${e.code ?? e.name ?? 'error'})`)
+  }
+}
+
+export function putObject(key: string, body: Uint8Array, contentType: string, sha256Hex?: string) {
+  return guarded(() => s3().send(new PutObjectCommand({
+    Bucket: bucket(), Key: key, Body: body, ContentType: contentType,
+    Metadata: sha256Hex ? { sha256: sha256Hex } : undefined,
+  })))
+}
+
+export async function getObject(key: string): Promise<{ body: Readable, contentType?: string, length?: number }> {
+  const r = await guarded(() => s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key })))
+  return { body: r.Body as Readable, contentType: r.ContentType, length: r.ContentLength }
+}
+
+export async function getObjectBytes(key: string): Promise<Uint8Array> {
+  const r = await guarded(() => s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key })))
+  return r.Body!.transformToByteArray()
+}
+
+export function deleteObject(key: string) {
+  return guarded(() => s3().send(new DeleteObjectCommand({ Bucket: bucket(), Key: key })))
+}
+
+export async function storageReachable() {
+  try {
+    await s3().send(new HeadBucketCommand({ Bucket: bucket() }))
+    return true
+  }
+  catch {
+    return false
+  }
+}

@@ -1,0 +1,154 @@
+import { createHash } from 'node:crypto'
+import { GetObjectCommand, ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3'
+import sharp from 'sharp'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type pg from 'pg'
+import { accounts, database, fixtureIds, signIn } from '../support/api'
+import type { ApiClient } from '../support/api'
+import { testPng, uploadPhoto } from '../support/photos'
+
+const s3 = new S3Client({
+  endpoint: process.env.S3_ENDPOINT, region: process.env.S3_REGION ?? 'us-east-1', forcePathStyle: true,
+  credentials: { accessKeyId: process.env.S3_ACCESS_KEY_ID ?? 'S3RVER', secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? 'S3RVER' },
+})
+const bucket = process.env.S3_BUCKET ?? 'tautline-photos'
+const sha256 = (b: Uint8Array) => createHash('sha256').update(b).digest('hex')
+
+let db: pg.Client
+let ids: Awaited<ReturnType<typeof fixtureIds>>
+let installer: ApiClient
+let manager2: ApiClient
+
+async function objectCount() {
+  let n = 0
+  let token: string | undefined
+  do {
+    const r = await s3.send(new ListObjectsV2Command({ Bucket: bucket, ContinuationToken: token }))
+    n += r.KeyCount ?? 0
+    token = r.NextContinuationToken
+  } while (token)
+  return n
+}
+const photoRows = async () => (await db.query('SELECT count(*)::int AS n FROM photos')).rows[0].n as number
+
+beforeAll(async () => {
+  db = await database()
+  ids = await fixtureIds(db)
+  installer = await signIn(accounts.installer)
+  manager2 = await signIn(accounts.manager2)
+})
+afterAll(async () => { await db.end() })
+
+describe('photos are evidence kept in S3', () => {
+  it('stores the photo with its SHA-256, EXIF capture time and a thumbnail', async () => {
+    const jpeg = await sharp({ create: { width: 1200, height: 900, channels: 3, background: '#7a6a55' } })
+      .jpeg().withExif({ IFD0: { Make: 'TestCam' }, IFD2: { DateTimeOriginal: '2026:11:30 09:15:00' } }).toBuffer()
+    const photo = await uploadPhoto(installer, ids.own.covering, 'tension_device', jpeg, 'IMG_0042.JPG')
+    expect(photo.sha256).toBe(sha256(jpeg))
+    const { rows: [row] } = await db.query('SELECT * FROM photos WHERE id = $1', [photo.id])
+    expect(row).toMatchObject({ kind: 'tension_device', content_type: 'image/jpeg', size_bytes: jpeg.byteLength, file_name: 'IMG_0042.JPG', width_px: 1200 })
+    expect(new Date(row.captured_at).toISOString()).toMatch(/^2026-11-30T/)
+    const stored = await s3.send(new GetObjectCommand({ Bucket: bucket, Key: row.object_key }))
+    expect(sha256(await stored.Body!.transformToByteArray())).toBe(row.sha256)
+    const full = await fetch(`${process.env.TEST_BASE_URL}${photo.url}`, { headers: { cookie: installer.cookie! } })
+    expect(full.headers.get('content-type')).toBe('image/jpeg')
+    expect(sha256(new Uint8Array(await full.arrayBuffer()))).toBe(row.sha256)
+    const thumb = await fetch(`${process.env.TEST_BASE_URL}${photo.thumbUrl}`, { headers: { cookie: installer.cookie! } })
+    const meta = await sharp(Buffer.from(await thumb.arrayBuffer())).metadata()
+    expect(Math.max(meta.width!, meta.height!)).toBeLessThanOrEqual(480)
+  })
+
+  it('answers 415 for a text file named .jpg and leaves no row and no object', async () => {
+    const [rows, objects] = [await photoRows(), await objectCount()]
+    const form = new FormData()
+    form.append('kind', 'whole')
+    form.append('file', new Blob(['this is not a photo, only words\n'.repeat(20)], { type: 'image/jpeg' }), 'blind.jpg')
+    const r = await installer.request('POST', `/api/coverings/${ids.own.covering}/photos`, form)
+    expect(r.status).toBe(415)
+    expect(r.body.message).toMatch(/^file: this is not a JPEG, PNG, WebP or HEIC photo/)
+    expect(await photoRows()).toBe(rows)
+    expect(await objectCount()).toBe(objects)
+  })
+
+  it('answers 413 for a photo over 15 MB and leaves no row and no object', async () => {
+    const [rows, objects] = [await photoRows(), await objectCount()]
+    const big = new Uint8Array(16 * 1024 * 1024)
+    big.set(await testPng(8, 8))
+    const form = new FormData()
+    form.append('kind', 'whole')
+    form.append('file', new Blob([big]), 'huge.png')
+    const r = await installer.request('POST', `/api/coverings/${ids.own.covering}/photos`, form)
+    expect(r.status).toBe(413)
+    expect(await photoRows()).toBe(rows)
+    expect(await objectCount()).toBe(objects)
+  })
+
+  it('names the kind when it is unknown', async () => {
+    const form = new FormData()
+    form.append('kind', 'selfie')
+    form.append('file', new Blob([new Uint8Array(await testPng())]), 'a.png')
+    const r = await installer.request('POST', `/api/coverings/${ids.own.covering}/photos`, form)
+    expect(r.status).toBe(400)
+    expect(r.body.message).toMatch(/^kind/)
+  })
+
+  it('answers 404 for another tenant\'s photo', async () => {
+    const otherAdmin = await signIn(accounts.otherAdmin)
+    const foreign = await uploadPhoto(otherAdmin, ids.other.covering)
+    expect((await installer.get(`/api/photos/${foreign.id}`)).status).toBe(404)
+    const mine = await uploadPhoto(installer, ids.own.covering)
+    expect((await manager2.get(`/api/photos/${mine.id}`)).status).toBe(404)
+    expect((await manager2.get(`/api/photos/${mine.id}/thumb`)).status).toBe(404)
+  })
+
+  it('refuses UPDATE and DELETE on photo rows in the database', async () => {
+    const { rows: [row] } = await db.query('SELECT id FROM photos LIMIT 1')
+    await expect(db.query(`UPDATE photos SET sha256 = 'x' WHERE id = $1`, [row.id])).rejects.toThrow(/evidence/)
+    await expect(db.query('DELETE FROM photos WHERE id = $1', [row.id])).rejects.toThrow(/evidence/)
+  })
+})
+
+describe('sign-off', () => {
+  const tensioned = {
+    headHeightMm: 2100, lowestCordPointMm: 900, loopPullOutMm: 30, loopPerimeterMm: 60, tensionDevice: true, tensionDeviceHeightMm: 900,
+    tensionDeviceHoldN: 80, tensionDeviceTamperProof: true, cleat: false, breakaway: false, innerCordStops: true,
+    warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, climbableFurnitureNearby: false,
+  }
+
+  it('needs a photo of a fitted tension device', async () => {
+    const r = await installer.post(`/api/coverings/${ids.own.covering}/inspections`, { kind: 'fitting', measurements: tensioned })
+    expect(r.status).toBe(400)
+    expect(r.body.message).toMatch(/^photoIds: a covering with a tension device needs a photo/)
+  })
+
+  it('saves the inspection once with findings, photos and rule-set version, even when sent twice', async () => {
+    const photo = await uploadPhoto(installer, ids.own.covering, 'tension_device')
+    const body = { kind: 'fitting', measurements: tensioned, photoIds: [photo.id], clientKey: `draft-${Date.now()}` }
+    const first = await installer.post(`/api/coverings/${ids.own.covering}/inspections`, body)
+    expect(first.status).toBe(201)
+    expect(first.body.verdict).toBe('compliant')
+    expect(first.body.rulesVersion).toMatch(/^AU-/)
+    const again = await installer.post(`/api/coverings/${ids.own.covering}/inspections`, body)
+    expect(again.status).toBe(200)
+    expect(again.body.id).toBe(first.body.id)
+    const links = await db.query('SELECT photo_id FROM inspection_photos WHERE inspection_id = $1', [first.body.id])
+    expect(links.rows.map(r => r.photo_id)).toEqual([photo.id])
+    const findings = await db.query('SELECT count(*)::int AS n FROM findings WHERE inspection_id = $1', [first.body.id])
+    expect(findings.rows[0].n).toBeGreaterThan(3)
+    const covering = await installer.get(`/api/coverings/${ids.own.covering}`)
+    expect(covering.body.lastInspectionId).toBe(first.body.id)
+  })
+
+  it('names the measured field that is impossible', async () => {
+    const r = await installer.post(`/api/coverings/${ids.own.covering}/inspections`, { measurements: { ...tensioned, loopPullOutMm: -5 } })
+    expect(r.status).toBe(400)
+    expect(r.body.message).toMatch(/^measurements\.loopPullOutMm/)
+  })
+
+  it('will not link another covering\'s photo', async () => {
+    const elsewhere = await uploadPhoto(installer, ids.clientTwo.covering, 'tension_device')
+    const r = await installer.post(`/api/coverings/${ids.own.covering}/inspections`, { measurements: tensioned, photoIds: [elsewhere.id] })
+    expect(r.status).toBe(400)
+    expect(r.body.data.fields.photoIds).toBeTruthy()
+  })
+})
