@@ -10,7 +10,10 @@ let officer: ApiClient, installer: ApiClient, manager: ApiClient, manager2: ApiC
 beforeAll(async () => {
   db = await database()
   ids = await fixtureIds(db)
-  ;[officer, installer, manager, manager2] = await Promise.all([accounts.officer, accounts.installer, accounts.manager, accounts.manager2].map(e => signIn(e)))
+  officer = await signIn(accounts.officer)
+  installer = await signIn(accounts.installer)
+  manager = await signIn(accounts.manager)
+  manager2 = await signIn(accounts.manager2)
 })
 afterAll(async () => { await db.end() })
 
