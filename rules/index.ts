@@ -1,0 +1,66 @@
+// Public face of the rulebook and check engine: the app imports only from here.
+export {
+  coveringRecordSchema,
+  controlTypes,
+  corded,
+  formatRecordError,
+  innerCorded,
+  jurisdictions,
+  looped,
+  madeToValues,
+  premisesTypes,
+  productTypes,
+  validateRecords,
+} from './record'
+export type {
+  ControlType,
+  CoveringRecord,
+  CoveringRecordInput,
+  Jurisdiction,
+  MadeTo,
+  PremisesType,
+  ProductType,
+  RecordError,
+  RecordField,
+  ValidationResult,
+} from './record'
+export type {
+  AppliesTo,
+  Basis,
+  CheckOptions,
+  CheckResult,
+  Clause,
+  ClauseContext,
+  ClauseKind,
+  ClauseVerdict,
+  DateField,
+  DateWindow,
+  Evaluator,
+  Finding,
+  MeasuredValue,
+  OverallVerdict,
+  RuleSet,
+  RuleSetMap,
+  Source,
+  Threshold,
+  Unit,
+} from './types'
+export { checkRecord, checkRecords, currentDateIso, getRuleSet } from './engine'
+export { ruleSets } from './sets'
+export { describeClause, describeRuleSet, describeRuleSets } from './describe'
+export type { ClauseDescription, RuleSetDescription } from './describe'
+export { advise, fail, missing, notApplicable, pass, requireFlag } from './findings'
+export {
+  inchesToMm,
+  installerGuide,
+  lowestCleatHeightMm,
+  maxDropWithSafetyDeviceMm,
+  maxUnguardedDropMm,
+  mmToInches,
+  perimeterFromPullOutMm,
+  pullOutFromPerimeterMm,
+  tensionDeviceFixingRange,
+  tensionDevicePosition,
+  usCustomOperatingCordDefaultMm,
+} from './arithmetic'
+export type { DeviceDrops, DevicePosition, DropInput, FixingRange, GuideFigure, InstallerGuide, InstallerGuideInput } from './arithmetic'

@@ -1,0 +1,61 @@
+import { createHash } from 'node:crypto'
+import { describe, expect, it } from 'vitest'
+import { describeRuleSets } from '../../../rules'
+import type { RuleSetDescription } from '../../../rules'
+
+// A change to any clause's id, kind, basis, source, scope of application or threshold must come with a new
+// rule-set version, because stored results name the version they were checked under.
+
+/** The version each rule set's clause data was last released under, and that data's fingerprint. */
+const RELEASED: Record<string, string> = {
+  'AU-2026.12.0': '68274f39edd43693',
+  'CA-2026.12.0': '5b1ef9ae24069e87',
+  'US-2026.12.0': '479479fd75aa1207',
+  'EU-2026.12.0': 'd083220ad3e5a2d2',
+}
+
+/** JSON with object keys sorted, so the fingerprint does not depend on key order. */
+function canonical(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`
+  if (value !== null && typeof value === 'object') {
+    const entries = Object.entries(value as Record<string, unknown>).filter(([, v]) => v !== undefined)
+    entries.sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonical(v)}`).join(',')}}`
+  }
+  return JSON.stringify(value)
+}
+
+/** Fingerprint of what decides verdicts: wording (titles, notes, descriptions) is left out. */
+function fingerprint(set: RuleSetDescription): string {
+  const data = {
+    jurisdiction: set.jurisdiction,
+    premises: set.scope.premises,
+    clauses: set.clauses.map((c) => ({
+      id: c.id,
+      kind: c.kind,
+      basis: c.basis,
+      source: c.source,
+      appliesTo: { ...c.appliesTo, description: undefined },
+      thresholds: c.thresholds.map((t) => ({ name: t.name, value: t.value, unit: t.unit })),
+    })),
+  }
+  return createHash('sha256').update(canonical(data)).digest('hex').slice(0, 16)
+}
+
+describe('rule set versions', () => {
+  for (const set of describeRuleSets()) {
+    it(`${set.jurisdiction} ${set.version} matches its released clause data`, () => {
+      const now = fingerprint(set)
+      expect(
+        RELEASED[set.version],
+        `${set.jurisdiction} clause data changed (fingerprint ${now}). Bump the version in rules/sets/${set.jurisdiction.toLowerCase()}.ts ` +
+          `(e.g. ${set.version.replace(/\.(\d+)$/, (_, n: string) => `.${Number(n) + 1}`)}) and add '<new version>': '${now}' to RELEASED in this file.`,
+      ).toBe(now)
+    })
+  }
+
+  it('no two releases share a version string', () => {
+    const versions = describeRuleSets().map((s) => s.version)
+    expect(new Set(versions).size).toBe(versions.length)
+  })
+})
