@@ -35,6 +35,10 @@ export const controlTypes = ['chain_loop', 'cord_loop', 'free_cord', 'wand', 'mo
 export type ControlType = (typeof controlTypes)[number]
 
 export const madeToValues = ['stock', 'custom'] as const
+
+/** What a tension device or cleat is screwed (or stuck) into. */
+export const deviceFixings = ['timber', 'masonry_plugs', 'plasterboard_anchor', 'metal_frame', 'adhesive'] as const
+export type DeviceFixing = (typeof deviceFixings)[number]
 export type MadeTo = (typeof madeToValues)[number]
 
 /** Controls that hang an operating cord or chain within reach. */
@@ -133,6 +137,8 @@ export const coveringRecordSchema = z
     tensionDeviceHoldN: forceN(),
     /** A child cannot take the cord out of the tension device. */
     tensionDeviceTamperProof: flag(),
+    /** Added: what the tension device or cleat is fixed into (advice on fixings). */
+    deviceFixing: enumOf(deviceFixings).nullable().default(null),
     cleat: flag(),
     cleatHeightMm: lengthMm(),
     /** A breakaway connector is fitted. */

@@ -96,10 +96,15 @@ export const easeTensionClause: Clause = {
 
 function screwFixings(r: CoveringRecord, cx: ClauseContext): Finding {
   if (r.tensionDevice !== true && r.cleat !== true) return notApplicable(cx, 'No tension device or cleat is recorded as fitted.')
+  if (r.deviceFixing === 'adhesive') {
+    return advise(cx, 'deviceFixing', r.deviceFixing,
+      'The device is stuck on with adhesive: adhesive can let go under a child\'s pull.',
+      'Refix it with screws into solid material (timber, plugs in masonry, anchors in plasterboard) and repeat the pull test.')
+  }
   return advise(
     cx,
-    r.tensionDevice === true ? 'tensionDevice' : 'cleat',
-    true,
+    r.deviceFixing ? 'deviceFixing' : r.tensionDevice === true ? 'tensionDevice' : 'cleat',
+    r.deviceFixing ?? true,
     'Tension devices and cleats hold only as well as their fixings.',
     'Fix them with screws into solid material (timber, plugs in masonry, anchors in plasterboard); never with adhesive.',
   )

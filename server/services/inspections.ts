@@ -1,15 +1,17 @@
 import type { Sequelize, Transaction } from 'sequelize'
 import { checkRecord, coveringRecordSchema } from '../../rules'
 import type { CheckResult, CoveringRecord } from '../../rules'
-import { Covering, Finding, Inspection } from '../models'
+import { Covering, Finding, Inspection, Opening } from '../models'
 import type { Site } from '../models'
 import { logActivity } from './activity'
 
 export type InspectionKind = 'fitting' | 'audit' | 'import' | 'correction'
 
 /** The rulebook record for a covering: register data plus the measurements taken on this visit. */
-export function rulebookInput(site: Pick<Site, 'jurisdiction' | 'premises'>, covering: Pick<Covering, 'ref' | 'productType' | 'control' | 'madeTo' | 'manufacturedOn' | 'installedOn'>, measurements: Record<string, unknown>) {
+export function rulebookInput(site: Pick<Site, 'jurisdiction' | 'premises'>, covering: Pick<Covering, 'ref' | 'productType' | 'control' | 'madeTo' | 'manufacturedOn' | 'installedOn'>, measurements: Record<string, unknown>, opening?: { childrensRoom: boolean } | null) {
   return {
+    // The register knows whether the room is a child's; a measurement taken on site may say otherwise.
+    childrensRoom: opening?.childrensRoom ?? null,
     ...measurements,
     ref: covering.ref,
     jurisdiction: site.jurisdiction,
@@ -55,7 +57,8 @@ export async function recordInspection(db: Sequelize, args: {
   correctsId?: number | null
   clientKey?: string | null
 }, outer?: Transaction): Promise<{ inspection: Inspection, result: CheckResult }> {
-  const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements))
+  const opening = await Opening.findByPk(args.covering.openingId, { attributes: ['childrensRoom'], transaction: outer })
+  const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements, opening))
   const result = checkRecord(record, { today: args.inspectedAt.toISOString().slice(0, 10) })
   const work = async (transaction: Transaction) => {
     const inspection = await Inspection.create({

@@ -70,3 +70,21 @@ describe('advice never changes a verdict (common practice and published advice a
     }
   })
 })
+
+describe('advice.screw-fixings: fixings into solid material (common practice; ACCC installation guide, fixing options)', () => {
+  it('names adhesive as the thing to change, and never fails the covering', async () => {
+    const { checkRecord, coveringRecordSchema } = await import('../../../rules')
+    const record = coveringRecordSchema.parse({
+      ref: 'ADH-1', jurisdiction: 'AU', premises: 'home', installedOn: '2026-05-01', productType: 'roller', control: 'chain_loop',
+      headHeightMm: 2100, lowestCordPointMm: 900, loopPullOutMm: 20, tensionDevice: true, tensionDeviceHeightMm: 900,
+      tensionDeviceHoldN: 80, tensionDeviceTamperProof: true, deviceFixing: 'adhesive',
+      warningLabel: true, swingTag: true, installerLabel: true,
+    })
+    const result = checkRecord(record, { today: '2026-12-01' })
+    const finding = result.findings.find(f => f.clause === 'advice.screw-fixings')!
+    expect(finding.verdict).toBe('advice')
+    expect(finding.field).toBe('deviceFixing')
+    expect(finding.message).toMatch(/adhesive/)
+    expect(result.verdict).not.toBe('non_compliant')
+  })
+})
