@@ -58,6 +58,7 @@ const demoSites: SiteSeed[] = [
     { ref: 'U4', name: 'Unit 4', floor: 'First', openings: [
       { ref: 'W1', room: 'Living', coverings: [c('WAT-4-01', 'roller', 'motorised', m.motor, { widthMm: 2000 })] },
       { ref: 'W2', room: 'Bedroom 1', coverings: [c('WAT-4-02', 'roller', 'chain_loop', undefined, { installedOn: '2026-11-20' })] },
+      { ref: 'W3', room: 'Bedroom 2', childrensRoom: true, coverings: [c('WAT-4-03', 'pleated', 'cord_loop', m.chainTensioned, { widthMm: 800, dropMm: 1200 })] },
     ] },
   ] },
   { ref: 'COB', name: "Cobbler's Row", address: "5-11 Cobbler's Row, Dunmere DN4 7QX", jurisdiction: 'EU', premises: 'rental_home', client: 0, units: [
@@ -85,6 +86,7 @@ const demoSites: SiteSeed[] = [
     ] },
     { ref: 'R3', name: 'Office', openings: [
       { ref: 'W1', room: 'Office', coverings: [c('SPR-3-01', 'venetian', 'free_cord', m.cordCleatHigh, { widthMm: 900 })] },
+      { ref: 'W2', room: 'Staff room', coverings: [c('SPR-3-02', 'vertical', 'chain_loop', m.chainNoPullTest, { widthMm: 1800, dropMm: 2000 })] },
     ] },
   ] },
   { ref: 'NTB', name: 'Northbank Terrace', address: '88 Tamarack Road, Port Ellery ON K0X 9Z9', jurisdiction: 'CA', premises: 'rental_home', client: 1, units: [
@@ -96,6 +98,7 @@ const demoSites: SiteSeed[] = [
       { ref: 'W1', room: 'Living', coverings: [c('NTB-B-01', 'cellular', 'cordless', m.wand, { manufacturedOn: '2024-05', installedOn: '2024-08-20', madeTo: 'stock' })] },
       { ref: 'W2', room: 'Bedroom', childrensRoom: true, coverings: [c('NTB-B-02', 'roller', 'chain_loop', m.caLong, { manufacturedOn: '2024-05', installedOn: '2024-08-20' })] },
       { ref: 'W3', room: 'Kitchen', coverings: [c('NTB-B-03', 'roller', 'motorised', m.motor, { manufacturedOn: '2024-05', installedOn: '2024-08-20' })] },
+      { ref: 'W4', room: 'Den', coverings: [c('NTB-B-04', 'roman', 'free_cord', m.caShort, { manufacturedOn: '2024-05', installedOn: '2024-08-20' })] },
     ] },
   ] },
 ]
