@@ -154,17 +154,18 @@ async function kitFont(which: FontFile): Promise<KitFont> {
 interface Face { main: PDFFont, ext: PDFFont | null }
 interface Coverage { main: KitFont, ext: KitFont }
 
+type Weight = 'regular' | 'bold'
 interface Run { text: string, font: PDFFont }
+interface Word { text: string, weight: Weight }
 
 /** Replaces characters neither subset can draw: first by their unaccented letter, else by '?'. */
 function drawable(text: string, coverage: Coverage): string {
   const has = (cp: number) => coverage.main.hasGlyphForCodePoint(cp) || coverage.ext.hasGlyphForCodePoint(cp)
   let out = ''
   for (const ch of text.normalize('NFC').replace(/\s+/g, ' ').trim()) {
-    const cp = ch.codePointAt(0)!
-    if (has(cp)) { out += ch; continue }
     const base = ch.normalize('NFKD').replace(/\p{M}/gu, '')
-    out += base && [...base].every(b => has(b.codePointAt(0)!)) ? base : '?'
+    if (has(ch.codePointAt(0)!)) out += ch
+    else out += base && [...base].every(b => has(b.codePointAt(0)!)) ? base : '?'
   }
   return out
 }
@@ -177,7 +178,7 @@ function needsExt(text: string, coverage: Coverage): boolean {
 class Typesetter {
   constructor(private readonly faces: { regular: Face, bold: Face }, private readonly coverage: Coverage) {}
 
-  runs(text: string, weight: 'regular' | 'bold'): Run[] {
+  runs(text: string, weight: Weight): Run[] {
     const face = this.faces[weight]
     const out: Run[] = []
     for (const ch of text) {
@@ -189,11 +190,11 @@ class Typesetter {
     return out
   }
 
-  widthPt(text: string, weight: 'regular' | 'bold', sizePt: number): number {
+  widthPt(text: string, weight: Weight, sizePt: number): number {
     return this.runs(text, weight).reduce((sum, r) => sum + r.font.widthOfTextAtSize(r.text, sizePt), 0)
   }
 
-  draw(page: PDFPage, text: string, at: { xPt: number, yPt: number, sizePt: number, weight: 'regular' | 'bold', color: Color }) {
+  draw(page: PDFPage, text: string, at: { xPt: number, yPt: number, sizePt: number, weight: Weight, color: Color }) {
     let x = at.xPt
     for (const run of this.runs(text, at.weight)) {
       page.drawText(run.text, { x, y: at.yPt, size: at.sizePt, font: run.font, color: at.color })
@@ -202,7 +203,7 @@ class Typesetter {
   }
 
   /** Cuts text to the width with a trailing ellipsis (whole text when it fits). */
-  truncate(text: string, weight: 'regular' | 'bold', sizePt: number, maxWidthPt: number): string {
+  truncate(text: string, weight: Weight, sizePt: number, maxWidthPt: number): string {
     if (this.widthPt(text, weight, sizePt) <= maxWidthPt) return text
     const chars = [...text]
     let lo = 0
@@ -216,7 +217,7 @@ class Typesetter {
   }
 
   /** One line: shrinks from the preferred size down to the smallest, then truncates at the smallest. */
-  fit(text: string, weight: 'regular' | 'bold', maxSizePt: number, minSizePt: number, maxWidthPt: number) {
+  fit(text: string, weight: Weight, maxSizePt: number, minSizePt: number, maxWidthPt: number) {
     const widthAtMax = this.widthPt(text, weight, maxSizePt)
     if (widthAtMax <= maxWidthPt) return { text, sizePt: maxSizePt }
     const sizePt = Math.floor((maxSizePt * maxWidthPt / widthAtMax) * 4) / 4
@@ -224,26 +225,58 @@ class Typesetter {
     return { text: this.truncate(text, weight, minSizePt, maxWidthPt), sizePt: minSizePt }
   }
 
-  /** Word-wraps into at most maxLines, shrinking as needed; at the smallest size the last line is truncated. */
-  wrap(text: string, weight: 'regular' | 'bold', maxSizePt: number, minSizePt: number, maxWidthPt: number, maxLines: number) {
-    const words = text.split(' ').filter(Boolean)
+  /**
+   * Word-wraps mixed-weight text into at most maxLines, shrinking as needed; if it still does not fit at the
+   * smallest size, the last line ends in an ellipsis. Never wider than maxWidthPt.
+   */
+  wrap(parts: Array<{ text: string, weight: Weight }>, maxSizePt: number, minSizePt: number, maxWidthPt: number, maxLines: number) {
+    const words = parts.flatMap(p => p.text.split(' ').filter(Boolean).map(text => ({ text, weight: p.weight })))
+    const lineWidth = (line: Word[], sizePt: number) =>
+      line.reduce((sum, w, i) => sum + this.widthPt(w.text, w.weight, sizePt) + (i ? this.widthPt(' ', 'regular', sizePt) : 0), 0)
     const lay = (sizePt: number) => {
-      const lines: string[] = []
+      const lines: Word[][] = []
       for (const word of words) {
         const last = lines[lines.length - 1]
-        if (last !== undefined && this.widthPt(`${last} ${word}`, weight, sizePt) <= maxWidthPt) lines[lines.length - 1] = `${last} ${word}`
-        else lines.push(word)
+        if (last && lineWidth([...last, word], sizePt) <= maxWidthPt) last.push(word)
+        else lines.push([word])
       }
       return lines
     }
     for (let sizePt = maxSizePt; sizePt > minSizePt; sizePt -= 0.25) {
       const lines = lay(sizePt)
-      if (lines.length <= maxLines && lines.every(l => this.widthPt(l, weight, sizePt) <= maxWidthPt)) return { lines, sizePt }
+      if (lines.length <= maxLines && lines.every(l => lineWidth(l, sizePt) <= maxWidthPt)) return { lines, sizePt }
     }
     const lines = lay(minSizePt)
-    const kept = lines.slice(0, maxLines).map(l => this.truncate(l, weight, minSizePt, maxWidthPt))
-    if (lines.length > maxLines) kept[maxLines - 1] = this.truncate(`${lines[maxLines - 1]} ${lines.slice(maxLines).join(' ')}`, weight, minSizePt, maxWidthPt)
-    return { lines: kept, sizePt: minSizePt }
+    const squeeze = (line: Word[]): Word[] => lineWidth(line, minSizePt) <= maxWidthPt
+      ? line
+      : [{ text: this.truncate(line.map(w => w.text).join(' '), 'regular', minSizePt, maxWidthPt), weight: 'regular' }]
+    const kept = lines.slice(0, maxLines)
+    if (lines.length > maxLines) kept[maxLines - 1] = [{ text: lines.slice(maxLines - 1).flat().map(w => w.text).join(' '), weight: 'regular' }]
+    return { lines: kept.map(squeeze), sizePt: minSizePt }
+  }
+
+  /** Draws one wrapped line, word by word in each word's weight. */
+  drawWords(page: PDFPage, line: Word[], at: { xPt: number, yPt: number, sizePt: number, color: Color }) {
+    let x = at.xPt
+    line.forEach((word, i) => {
+      if (i) x += this.widthPt(' ', 'regular', at.sizePt)
+      this.draw(page, word.text, { ...at, xPt: x, weight: word.weight })
+      x += this.widthPt(word.text, word.weight, at.sizePt)
+    })
+  }
+
+  /** Site, unit and room on one line; a long site name gives way first, since unit and room find the window. */
+  place(site: string, unit: string, room: string, maxSizePt: number, minSizePt: number, maxWidthPt: number) {
+    const sep = '  ·  '
+    const whole = this.fit([site, unit, room].filter(Boolean).join(sep), 'regular', maxSizePt, minSizePt, maxWidthPt)
+    const tail = [unit, room].filter(Boolean).join(sep)
+    if (!whole.text.endsWith('…') || !tail || !site) return whole
+    // The site keeps at least a quarter of the line; unit and room take the rest, cut only if they must be.
+    const tailWidthPt = this.widthPt(`${sep}${tail}`, 'regular', minSizePt)
+    const siteWidthPt = Math.max(maxWidthPt * 0.25, maxWidthPt - tailWidthPt)
+    const siteText = this.truncate(site, 'regular', minSizePt, siteWidthPt)
+    const tailText = this.truncate(`${sep}${tail}`, 'regular', minSizePt, maxWidthPt - this.widthPt(siteText, 'regular', minSizePt))
+    return { text: `${siteText}${tailText}`, sizePt: minSizePt }
   }
 }
 
@@ -251,18 +284,28 @@ class Typesetter {
 // Drawing one label.
 
 /** Type sizes and spacing per sheet: the Letter label is taller, so it gets a larger QR and type. */
-const labelStyles: Record<SheetName, {
-  padPt: number, qrPt: number, gutterPt: number, nameSizePt: number, minNameSizePt: number, detailSizePt: number,
-  fieldLabelSizePt: number, fieldValueSizePt: number, placeSizePt: number, cautionSizePt: number, minTextSizePt: number,
-  captionSizePt: number,
-}> = {
+interface LabelStyle {
+  padPt: number
+  qrPt: number
+  gutterPt: number
+  nameSizePt: number
+  minNameSizePt: number
+  detailSizePt: number
+  fieldLabelSizePt: number
+  fieldValueSizePt: number
+  placeSizePt: number
+  cautionSizePt: number
+  minTextSizePt: number
+  captionSizePt: number
+}
+const labelStyles: Record<SheetName, LabelStyle> = {
   'a4-14': {
-    padPt: 8.5, qrPt: 76, gutterPt: 9, nameSizePt: 10.5, minNameSizePt: 7, detailSizePt: 6.5, fieldLabelSizePt: 5.5,
+    padPt: 8.5, qrPt: 84, gutterPt: 9, nameSizePt: 10.5, minNameSizePt: 7, detailSizePt: 6.5, fieldLabelSizePt: 5.5,
     fieldValueSizePt: 9, placeSizePt: 7, cautionSizePt: 5.6, minTextSizePt: 5, captionSizePt: 5,
   },
   'letter-10': {
-    padPt: 10, qrPt: 98, gutterPt: 10, nameSizePt: 12, minNameSizePt: 7.5, detailSizePt: 7.5, fieldLabelSizePt: 6,
-    fieldValueSizePt: 10.5, placeSizePt: 8, cautionSizePt: 6.4, minTextSizePt: 5, captionSizePt: 5.8,
+    padPt: 10, qrPt: 96, gutterPt: 10, nameSizePt: 12, minNameSizePt: 7.5, detailSizePt: 8, fieldLabelSizePt: 6.2,
+    fieldValueSizePt: 11, placeSizePt: 8.5, cautionSizePt: 6.8, minTextSizePt: 5, captionSizePt: 5.8,
   },
 }
 
@@ -283,10 +326,10 @@ function drawQr(page: PDFPage, url: string, box: { xPt: number, yTopPt: number, 
   for (let row = 0; row < modules; row++) {
     let col = 0
     while (col < modules) {
-      if (!qr.modules.get(row, col)) { col++; continue }
       const start = col
       while (col < modules && qr.modules.get(row, col)) col++
-      path += `M${start} ${row}H${col}V${row + 1}H${start}Z`
+      if (col > start) path += `M${start} ${row}H${col}V${row + 1}H${start}Z`
+      else col++
     }
   }
   // drawSvgPath measures y downwards from (x, y), as QR rows run.
@@ -312,13 +355,17 @@ function drawLabel(page: PDFPage, t: Typesetter, label: LabelData, sheet: SheetN
   const bottom = r.yPt + st.padPt
   const innerHeightPt = r.heightPt - 2 * st.padPt
 
-  // Right column: QR at the top, its caption on the bottom line.
-  const captionGapPt = st.captionSizePt + 2
+  // Right column: the QR with its caption just below, the pair centred in the label's height.
+  const captionGapPt = st.captionSizePt + 1.5
   const qrSizePt = Math.min(st.qrPt, innerHeightPt - captionGapPt)
   const qrLeft = r.xPt + r.widthPt - st.padPt - qrSizePt
-  drawQr(page, label.url, { xPt: qrLeft, yTopPt: top, sizePt: qrSizePt })
+  const qrTop = top - (innerHeightPt - qrSizePt - captionGapPt) / 2
+  drawQr(page, label.url, { xPt: qrLeft, yTopPt: qrTop, sizePt: qrSizePt })
   const caption = t.fit('Scan for the fitting record', 'regular', st.captionSizePt, st.minTextSizePt, qrSizePt)
-  t.draw(page, caption.text, { xPt: qrLeft + (qrSizePt - t.widthPt(caption.text, 'regular', caption.sizePt)) / 2, yPt: bottom + 0.5, sizePt: caption.sizePt, weight: 'regular', color: muted })
+  t.draw(page, caption.text, {
+    xPt: qrLeft + (qrSizePt - t.widthPt(caption.text, 'regular', caption.sizePt)) / 2, yPt: qrTop - qrSizePt - caption.sizePt * 0.9,
+    sizePt: caption.sizePt, weight: 'regular', color: muted,
+  })
 
   // Left column: who fitted it (top), what and where (middle), the caution (bottom).
   const textWidthPt = qrLeft - st.gutterPt - left
@@ -331,7 +378,10 @@ function drawLabel(page: PDFPage, t: Typesetter, label: LabelData, sheet: SheetN
 
   const warnPt = st.cautionSizePt * 1.7
   const cautionIndentPt = warnPt + 3
-  const caution = t.wrap(LABEL_CAUTION, 'regular', st.cautionSizePt, st.minTextSizePt, textWidthPt - cautionIndentPt, 3)
+  // The danger in bold, what to do in regular weight.
+  const leadEnd = LABEL_CAUTION.indexOf('. ') + 1
+  const caution = t.wrap([{ text: LABEL_CAUTION.slice(0, leadEnd), weight: 'bold' }, { text: LABEL_CAUTION.slice(leadEnd), weight: 'regular' }],
+    st.cautionSizePt, st.minTextSizePt, textWidthPt - cautionIndentPt, 3)
   const cautionLinePt = caution.sizePt * 1.22
   const cautionHeightPt = caution.lines.length * cautionLinePt
 
@@ -370,8 +420,7 @@ function drawLabel(page: PDFPage, t: Typesetter, label: LabelData, sheet: SheetN
   const ref = t.fit(label.coveringRef, 'bold', st.fieldValueSizePt, st.minTextSizePt, textWidthPt - dateColumnPt)
   t.draw(page, ref.text, { xPt: left + dateColumnPt, yPt: y, sizePt: ref.sizePt, weight: 'bold', color: ink })
 
-  const placeText = [label.siteName, label.unitRef, label.room].filter(Boolean).join('  ·  ')
-  const place = t.fit(placeText, 'regular', st.placeSizePt, st.minTextSizePt, textWidthPt)
+  const place = t.place(label.siteName, label.unitRef, label.room, st.placeSizePt, st.minTextSizePt, textWidthPt)
   y -= placeLinePt
   t.draw(page, place.text, { xPt: left, yPt: y, sizePt: place.sizePt, weight: 'regular', color: ink })
 
@@ -379,7 +428,7 @@ function drawLabel(page: PDFPage, t: Typesetter, label: LabelData, sheet: SheetN
   let cy = bottom + cautionHeightPt - cautionLinePt + (cautionLinePt - caution.sizePt) + 0.5
   drawWarningMark(page, left, cy + caution.sizePt * 0.85, warnPt)
   for (const line of caution.lines) {
-    t.draw(page, line, { xPt: left + cautionIndentPt, yPt: cy, sizePt: caution.sizePt, weight: 'regular', color: ink })
+    t.drawWords(page, line, { xPt: left + cautionIndentPt, yPt: cy, sizePt: caution.sizePt, color: ink })
     cy -= cautionLinePt
   }
 }

@@ -51,6 +51,8 @@ const policies: Record<string, Policy> = {
   'POST /api/coverings': { roles: staff },
   'GET /api/coverings/:id': { roles: everyone, param: 'covering' },
   'PATCH /api/coverings/:id': { roles: staff, param: 'covering' },
+  'GET /api/coverings/:id/label.pdf': { roles: ['admin', 'officer', 'installer'], param: 'covering' },
+  'GET /api/sites/:id/labels.pdf': { roles: ['admin', 'officer', 'installer'], param: 'site' },
   'GET /api/activity': { roles: office },
   'GET /api/dev/mail': { roles: ['admin'] },
   'GET /api/dev/mail/:name': { roles: ['admin'], param: 'mailName' },
