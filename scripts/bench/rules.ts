@@ -67,6 +67,7 @@ function generate(i: number): CoveringRecord {
     cordSpanMm: maybe(mm(50, 500)),
     jointFreeCordsMm: maybe(mm(0, 400)),
     innerCordsReachable: flag(0.5),
+    deviceFixing: null,
     longerCordRequested: flag(0.3),
   }
 }

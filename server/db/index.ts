@@ -4,6 +4,7 @@ import { Umzug, SequelizeStorage } from 'umzug'
 import { initModels } from '../models'
 import * as foundation from '../migrations/0001-foundation'
 import * as fitting from '../migrations/0002-fitting'
+import * as audits from '../migrations/0003-audits'
 
 // Plain module (no Nitro auto-imports) so scripts and the server share one way to connect.
 
@@ -32,6 +33,7 @@ export function createSequelize(url = databaseUrl(), options: { poolMax?: number
 const migrations = [
   { name: '0001-foundation', ...foundation },
   { name: '0002-fitting', ...fitting },
+  { name: '0003-audits', ...audits },
 ]
 
 export function migrator(sequelize: Sequelize) {

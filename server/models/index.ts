@@ -119,6 +119,7 @@ export class Inspection extends Model<InferAttributes<Inspection>, InferCreation
   declare notes: string | null
   declare correctsId: number | null
   declare clientKey: CreationOptional<string | null>
+  declare auditId: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -168,6 +169,42 @@ export class ActivityEntry extends Model<InferAttributes<ActivityEntry>, InferCr
 }
 
 // Sequelize writes into attribute definitions, so each column gets a fresh object.
+export class Audit extends Model<InferAttributes<Audit>, InferCreationAttributes<Audit>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare siteId: number
+  declare status: CreationOptional<'open' | 'closed'>
+  declare openedBy: number
+  declare openedAt: CreationOptional<Date>
+  declare closedBy: CreationOptional<number | null>
+  declare closedByName: CreationOptional<string | null>
+  declare closedAt: CreationOptional<Date | null>
+  declare summary: CreationOptional<Record<string, number> | null>
+  declare notes: CreationOptional<string | null>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
+export class Fix extends Model<InferAttributes<Fix>, InferCreationAttributes<Fix>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare siteId: number
+  declare coveringId: number
+  declare clause: string
+  declare raisedByInspectionId: number
+  declare message: string
+  declare fix: string | null
+  declare source: string
+  declare priority: number
+  declare status: CreationOptional<'open' | 'closed'>
+  declare assigneeId: CreationOptional<number | null>
+  declare dueOn: string
+  declare closedByInspectionId: CreationOptional<number | null>
+  declare closedAt: CreationOptional<Date | null>
+  declare createdAt: CreationOptional<Date>
+  declare updatedAt: CreationOptional<Date>
+}
+
 const id = () => ({ type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true })
 const ref = () => ({ type: DataTypes.TEXT, allowNull: false })
 const text = () => ({ type: DataTypes.TEXT })
@@ -192,7 +229,7 @@ export function initModels(sequelize: Sequelize) {
     installedOn: DataTypes.DATEONLY, status: text(), lastInspectionId: int(), lastVerdict: text(),
     lastInspectedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'coverings' })
   Inspection.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), inspectedAt: DataTypes.DATE,
-    inspectorId: int(), record: DataTypes.JSONB, rulesVersion: ref(), verdict: ref(), notes: text(), correctsId: int(), clientKey: text(),
+    inspectorId: int(), record: DataTypes.JSONB, rulesVersion: ref(), verdict: ref(), notes: text(), correctsId: int(), clientKey: text(), auditId: int(),
     createdAt: DataTypes.DATE }, { ...base, tableName: 'inspections', updatedAt: false })
   Finding.init({ id: id(), inspectionId: int(), clause: ref(), verdict: ref(), measured: text(), limitValue: text(), unit: text(),
     field: text(), source: ref(), basis: ref(), message: ref(), fix: text() }, { ...base, tableName: 'findings', timestamps: false })
@@ -201,6 +238,13 @@ export function initModels(sequelize: Sequelize) {
     createdAt: DataTypes.DATE }, { ...base, tableName: 'photos', updatedAt: false })
   ActivityEntry.init({ id: { ...id(), type: DataTypes.BIGINT }, workspaceId: int(), userId: int(), action: ref(), entity: ref(),
     entityId: int(), detail: DataTypes.JSONB, at: DataTypes.DATE }, { ...base, tableName: 'activity_log', timestamps: false })
+
+  Audit.init({ id: id(), workspaceId: int(), siteId: int(), status: text(), openedBy: int(), openedAt: DataTypes.DATE,
+    closedBy: int(), closedByName: text(), closedAt: DataTypes.DATE, summary: DataTypes.JSONB, notes: text(), ...stamps() },
+  { ...base, tableName: 'audits' })
+  Fix.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), clause: ref(), raisedByInspectionId: int(), message: ref(),
+    fix: text(), source: ref(), priority: int(), status: text(), assigneeId: int(), dueOn: DataTypes.DATEONLY,
+    closedByInspectionId: int(), closedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'fixes' })
 
   Client.hasMany(Site, { foreignKey: 'clientId' })
   Site.belongsTo(Client, { foreignKey: 'clientId' })

@@ -4,6 +4,7 @@ import type { CheckResult, CoveringRecord } from '../../rules'
 import { Covering, Finding, Inspection, Opening } from '../models'
 import type { Site } from '../models'
 import { logActivity } from './activity'
+import { applyInspectionToRemedies } from './fixes'
 
 export type InspectionKind = 'fitting' | 'audit' | 'import' | 'correction'
 
@@ -56,6 +57,8 @@ export async function recordInspection(db: Sequelize, args: {
   notes?: string | null
   correctsId?: number | null
   clientKey?: string | null
+  photoIds?: number[]
+  auditId?: number | null
 }, outer?: Transaction): Promise<{ inspection: Inspection, result: CheckResult }> {
   const opening = await Opening.findByPk(args.covering.openingId, { attributes: ['childrensRoom'], transaction: outer })
   const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements, opening))
@@ -64,12 +67,24 @@ export async function recordInspection(db: Sequelize, args: {
     const inspection = await Inspection.create({
       workspaceId: args.workspaceId, siteId: args.site.id, coveringId: args.covering.id, kind: args.kind,
       inspectedAt: args.inspectedAt, inspectorId: args.inspectorId, record: record as unknown as Record<string, unknown>,
-      rulesVersion: result.rulesVersion, verdict: result.verdict, notes: args.notes ?? null, correctsId: args.correctsId ?? null, clientKey: args.clientKey ?? null,
+      rulesVersion: result.rulesVersion, verdict: result.verdict, notes: args.notes ?? null, correctsId: args.correctsId ?? null, clientKey: args.clientKey ?? null, auditId: args.auditId ?? null,
     }, { transaction })
     await Finding.bulkCreate(result.findings.map(f => ({
       inspectionId: inspection.id, clause: f.clause, verdict: f.verdict, measured: asText(f.measured), limitValue: asText(f.limit),
       unit: f.unit ?? null, field: f.field ?? null, source: f.source, basis: f.basis, message: f.message, fix: f.fix ?? null,
     })), { transaction })
+    const photoIds = args.photoIds ?? []
+    if (photoIds.length) {
+      await db.query(`INSERT INTO inspection_photos (inspection_id, photo_id) SELECT :inspection, unnest(ARRAY[:photos]::int[])`,
+        { transaction, replacements: { inspection: inspection.id, photos: photoIds } })
+    }
+    if (args.auditId) {
+      await db.query(`UPDATE audit_items SET status = 'measured', inspection_id = :inspection, reason = NULL, updated_by = :by, updated_at = now()
+        WHERE audit_id = :audit AND covering_id = :covering`,
+      { transaction, replacements: { inspection: inspection.id, by: args.inspectorId, audit: args.auditId, covering: args.covering.id } })
+    }
+    await applyInspectionToRemedies(db, { inspection, result, site: args.site, childrensRoom: record.childrensRoom === true,
+      photoCount: photoIds.length, actorId: args.inspectorId }, transaction)
     const newer = args.covering.lastInspectedAt && args.covering.lastInspectedAt > args.inspectedAt
     if (!newer) {
       await Covering.update({ lastInspectionId: inspection.id, lastVerdict: result.verdict, lastInspectedAt: args.inspectedAt },

@@ -1,6 +1,6 @@
-import { Op, QueryTypes, UniqueConstraintError } from 'sequelize'
+import { Op, UniqueConstraintError } from 'sequelize'
 import type { Sequelize } from 'sequelize'
-import { Inspection, Photo } from '../models'
+import { Audit, Inspection, Photo } from '../models'
 import type { Covering, Site } from '../models'
 import type { InspectionCreate } from '../../shared/schemas/inspection'
 import type { Actor } from './scope'
@@ -30,17 +30,19 @@ export async function signOff(db: Sequelize, actor: Actor, site: Site, covering:
     const corrected = await Inspection.findOne({ where: { id: body.correctsId, coveringId: covering.id } })
     if (!corrected) throw new SignOffRefusedError('correctsId', 'correctsId: that inspection is not one of this covering\'s')
   }
+  if (body.auditId) {
+    const audit = await Audit.findOne({ where: { id: body.auditId, siteId: covering.siteId, status: 'open' } })
+    if (!audit) throw new SignOffRefusedError('auditId', 'auditId: that audit is not open on this covering\'s site')
+    body = { ...body, kind: 'audit' }
+  }
   const inspectedAt = body.inspectedAt ? new Date(body.inspectedAt) : new Date()
   if (inspectedAt.getTime() > Date.now() + 5 * 60_000) throw new SignOffRefusedError('inspectedAt', 'inspectedAt: a visit cannot be in the future')
   const save = () => db.transaction(async (transaction) => {
     const { inspection, result } = await recordInspection(db, {
       workspaceId: actor.workspaceId, site, covering, kind: body.correctsId ? 'correction' : body.kind, inspectorId: actor.id,
       inspectedAt, measurements: body.measurements, notes: body.notes, correctsId: body.correctsId, clientKey: body.clientKey,
+      photoIds: photos.map(p => p.id), auditId: body.auditId,
     }, transaction)
-    if (photos.length) {
-      await db.query(`INSERT INTO inspection_photos (inspection_id, photo_id) VALUES ${photos.map((_, i) => `(:inspection, :p${i})`).join(', ')}`,
-        { type: QueryTypes.INSERT, transaction, replacements: { inspection: inspection.id, ...Object.fromEntries(photos.map((p, i) => [`p${i}`, p.id])) } })
-    }
     return { inspection, result, replayed: false }
   })
   try {

@@ -42,7 +42,7 @@ export async function listMailbox(workspaceId: number) {
   return items.filter(i => i !== null)
 }
 
-export async function readMessage(workspaceId: number, name: string) {
+export async function readMailboxMessage(workspaceId: number, name: string) {
   const raw = await readFile(join(mailDir(), name), 'utf8').catch(() => null)
   if (raw === null || !addressedTo(raw, await workspaceAddresses(workspaceId))) return null
   return { name, to: headerOf(raw, 'To'), subject: headerOf(raw, 'Subject'), date: headerOf(raw, 'Date'), raw }

@@ -11,5 +11,6 @@ export const inspectionCreateSchema = z.object({
   clientKey: z.string().regex(/^[\w-]{8,64}$/, 'clientKey is 8 to 64 letters, digits, - or _').nullish().transform(v => v ?? null),
   inspectedAt: z.iso.datetime({ offset: true, error: 'inspectedAt is an ISO date-time' }).nullish().transform(v => v ?? null),
   correctsId: z.number().int().positive().nullish().transform(v => v ?? null),
+  auditId: z.number().int().positive().nullish().transform(v => v ?? null),
 })
 export type InspectionCreate = z.infer<typeof inspectionCreateSchema>

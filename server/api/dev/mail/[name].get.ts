@@ -6,7 +6,7 @@ const params = z.object({ name: z.string().regex(/^[\w.-]+\.eml$/, 'name is not 
 export default defineEventHandler(async (event) => {
   const admin = await requireRole(event, ['admin'])
   const { name } = await getValidatedRouterParams(event, validateWith(params))
-  const message = await readMessage(admin.workspaceId, name)
+  const message = await readMailboxMessage(admin.workspaceId, name)
   if (!message) throw createError({ statusCode: 404, message: 'Message not found' })
   return message
 })

@@ -1,0 +1,106 @@
+import { QueryTypes } from 'sequelize'
+import type { Sequelize, Transaction } from 'sequelize'
+import type { CheckResult } from '../../rules'
+import { Fix } from '../models'
+import type { Inspection, Site } from '../models'
+import { logActivity } from './activity'
+
+// A remedy is the fix one failing clause calls for. It opens when an inspection fails the clause
+// and closes only when a later inspection of the same covering passes it and carries a photo.
+
+const labelFields = new Set(['warningLabel', 'swingTag', 'installerLabel', 'manufacturerLabel'])
+const childPremises = new Set(['childcare', 'school'])
+/** Days to remedy, by priority: 1 is a cord within a young child's reach. */
+export const daysToRemedy: Record<number, number> = { 1: 2, 2: 7, 3: 14, 4: 28 }
+
+/**
+ * Priority from the hazard: a cord or loop failure where young children sleep or play comes first,
+ * then any other cord failure, then labelling.
+ */
+export function remedyPriority(field: string | null, premises: string, childrensRoom: boolean) {
+  if (field && labelFields.has(field)) return 3
+  return childPremises.has(premises) || childrensRoom ? 1 : 2
+}
+
+function addDays(iso: string, days: number) {
+  const d = new Date(`${iso}T00:00:00Z`)
+  d.setUTCDate(d.getUTCDate() + days)
+  return d.toISOString().slice(0, 10)
+}
+
+export async function applyInspectionToRemedies(db: Sequelize, args: {
+  inspection: Inspection
+  result: CheckResult
+  site: Site
+  childrensRoom: boolean
+  photoCount: number
+  actorId: number | null
+}, transaction: Transaction) {
+  const { inspection, result, site } = args
+  const open = await Fix.findAll({ where: { coveringId: inspection.coveringId, status: 'open' }, transaction })
+  const openByClause = new Map(open.map(f => [f.clause, f]))
+  const today = inspection.inspectedAt.toISOString().slice(0, 10)
+  const raised: number[] = []
+  const closed: number[] = []
+  for (const f of result.findings) {
+    if (f.verdict === 'fail' && !openByClause.has(f.clause)) {
+      const priority = remedyPriority(f.field, site.premises, args.childrensRoom)
+      const fix = await Fix.create({
+        workspaceId: inspection.workspaceId, siteId: inspection.siteId, coveringId: inspection.coveringId, clause: f.clause,
+        raisedByInspectionId: inspection.id, message: f.message, fix: f.fix ?? null, source: f.source, priority,
+        dueOn: addDays(today, daysToRemedy[priority]!),
+      }, { transaction })
+      raised.push(fix.id)
+    }
+    const existing = openByClause.get(f.clause)
+    if (existing && (f.verdict === 'pass' || f.verdict === 'not_applicable') && args.photoCount > 0) {
+      await existing.update({ status: 'closed', closedByInspectionId: inspection.id, closedAt: new Date() }, { transaction })
+      closed.push(existing.id)
+    }
+  }
+  for (const id of raised) {
+    await logActivity({ workspaceId: inspection.workspaceId, userId: args.actorId, action: 'fix.raised', entity: 'fix', entityId: id, detail: { inspectionId: inspection.id } }, transaction)
+  }
+  for (const id of closed) {
+    await logActivity({ workspaceId: inspection.workspaceId, userId: args.actorId, action: 'fix.closed', entity: 'fix', entityId: id, detail: { inspectionId: inspection.id } }, transaction)
+  }
+  return { raised, closed }
+}
+
+export interface FixRow {
+  id: number
+  siteId: number
+  siteName: string
+  coveringId: number
+  coveringRef: string
+  unitRef: string
+  room: string
+  clause: string
+  message: string
+  fix: string | null
+  source: string
+  priority: number
+  status: 'open' | 'closed'
+  assigneeId: number | null
+  assigneeName: string | null
+  dueOn: string
+  overdue: boolean
+  closedAt: string | null
+  closedByInspectionId: number | null
+  createdAt: string
+}
+
+export const fixSelect = `f.id, f.site_id AS "siteId", s.name AS "siteName", f.covering_id AS "coveringId", c.ref AS "coveringRef",
+  u.ref AS "unitRef", o.room, f.clause, f.message, f.fix, f.source, f.priority, f.status, f.assignee_id AS "assigneeId",
+  a.name AS "assigneeName", to_char(f.due_on, 'YYYY-MM-DD') AS "dueOn", (f.status = 'open' AND f.due_on < current_date) AS overdue,
+  f.closed_at AS "closedAt", f.closed_by_inspection_id AS "closedByInspectionId", f.created_at AS "createdAt"`
+export const fixFrom = `fixes f JOIN sites s ON s.id = f.site_id JOIN coverings c ON c.id = f.covering_id
+  JOIN openings o ON o.id = c.opening_id JOIN units u ON u.id = o.unit_id LEFT JOIN users a ON a.id = f.assignee_id`
+
+export async function openFixCounts(db: Sequelize, siteId: number) {
+  const [row] = await db.query<{ open: number, overdue: number }>(
+    `SELECT count(*) FILTER (WHERE status = 'open')::int AS open,
+            count(*) FILTER (WHERE status = 'open' AND due_on < current_date)::int AS overdue
+     FROM fixes WHERE site_id = :siteId`, { type: QueryTypes.SELECT, replacements: { siteId } })
+  return row ?? { open: 0, overdue: 0 }
+}
