@@ -3,6 +3,8 @@ import type { Sequelize, Transaction } from 'sequelize'
 import type { CheckResult } from '../../rules'
 import { Fix } from '../models'
 import type { Inspection, Site } from '../models'
+import { likePattern, orderBy, siteScopeSql } from './scope'
+import type { Actor } from './scope'
 import { logActivity } from './activity'
 
 // A remedy is the fix one failing clause calls for. It opens when an inspection fails the clause
@@ -103,4 +105,47 @@ export async function openFixCounts(db: Sequelize, siteId: number) {
             count(*) FILTER (WHERE status = 'open' AND due_on < current_date)::int AS overdue
      FROM fixes WHERE site_id = :siteId`, { type: QueryTypes.SELECT, replacements: { siteId } })
   return row ?? { open: 0, overdue: 0 }
+}
+
+export async function listFixes(db: Sequelize, actor: Actor, q: { page: number, pageSize: number, sort: string, q?: string, siteId?: number, coveringId?: number,
+  assigneeId?: number, status: 'open' | 'closed' | 'all', overdue?: 'true' | 'false', priority?: number }) {
+  const scope = siteScopeSql(actor)
+  const where = [scope.sql]
+  const replacements: Record<string, unknown> = { ...scope.replacements, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
+  if (q.status !== 'all') { where.push('f.status = :status'); replacements.status = q.status }
+  if (q.siteId) { where.push('f.site_id = :siteId'); replacements.siteId = q.siteId }
+  if (q.coveringId) { where.push('f.covering_id = :coveringId'); replacements.coveringId = q.coveringId }
+  if (q.assigneeId) { where.push('f.assignee_id = :assigneeId'); replacements.assigneeId = q.assigneeId }
+  if (q.priority) { where.push('f.priority = :priority'); replacements.priority = q.priority }
+  if (q.overdue === 'true') where.push(`f.status = 'open' AND f.due_on < current_date`)
+  if (q.overdue === 'false') where.push(`NOT (f.status = 'open' AND f.due_on < current_date)`)
+  if (q.q) { where.push('(c.ref ILIKE :q OR f.clause ILIKE :q OR s.name ILIKE :q OR o.room ILIKE :q)'); replacements.q = likePattern(q.q) }
+  const order = orderBy(q.sort, { dueOn: 'f.due_on', priority: 'f.priority', createdAt: 'f.created_at', clause: 'f.clause' }, 'f.id')
+  const [items, [count]] = await Promise.all([
+    db.query<FixRow>(`SELECT ${fixSelect} FROM ${fixFrom} WHERE ${where.join(' AND ')} ORDER BY ${order} LIMIT :limit OFFSET :offset`, { type: QueryTypes.SELECT, replacements }),
+    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM ${fixFrom} WHERE ${where.join(' AND ')}`, { type: QueryTypes.SELECT, replacements }),
+  ])
+  return { items, total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
+}
+
+export async function getFix(db: Sequelize, actor: Actor, id: number) {
+  const scope = siteScopeSql(actor)
+  const [row] = await db.query<FixRow>(`SELECT ${fixSelect} FROM ${fixFrom} WHERE f.id = :id AND ${scope.sql}`,
+    { type: QueryTypes.SELECT, replacements: { ...scope.replacements, id } })
+  return row ?? null
+}
+
+/** Assignee and due date are the only things a person changes on a remedy; closing takes an inspection. */
+export async function updateFix(db: Sequelize, actor: Actor, fix: Fix, changes: { assigneeId?: number | null, dueOn?: string }) {
+  if (changes.assigneeId) {
+    const [staff] = await db.query<{ id: number }>(`SELECT id FROM users WHERE id = :id AND workspace_id = :ws AND role <> 'manager' AND active`,
+      { type: QueryTypes.SELECT, replacements: { id: changes.assigneeId, ws: actor.workspaceId } })
+    if (!staff) throw Object.assign(new Error('assigneeId: assign the remedy to an active member of your team'), { field: 'assigneeId', statusCode: 400 })
+  }
+  if (fix.status === 'closed') throw Object.assign(new Error('This remedy is closed; a later failure opens a new one'), { field: 'status', statusCode: 409 })
+  const before = { assigneeId: fix.assigneeId, dueOn: fix.dueOn }
+  await db.transaction(async (transaction) => {
+    await fix.update(changes, { transaction })
+    await logActivity({ workspaceId: actor.workspaceId, userId: actor.id, action: 'fix.updated', entity: 'fix', entityId: fix.id, detail: { before, after: changes } }, transaction)
+  })
 }

@@ -1,6 +1,6 @@
 import type { User as SessionUser } from '#auth-utils'
 
-export type Actor = Pick<SessionUser, 'id' | 'role' | 'workspaceId' | 'clientId'>
+export type Actor = Pick<SessionUser, 'id' | 'role' | 'workspaceId' | 'clientId'> & { name?: string }
 
 /** The same limit as a Sequelize `where` on the Site model. */
 export function siteWhere(actor: Actor): { workspaceId: number, clientId?: number } {

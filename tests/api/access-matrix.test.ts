@@ -7,7 +7,7 @@ import { uploadPhoto } from '../support/photos'
 
 // Built from the files under server/api: a new route with no entry here, or with no guard, fails.
 type Role = 'admin' | 'officer' | 'installer' | 'manager'
-type Param = 'site' | 'unit' | 'opening' | 'covering' | 'client' | 'user' | 'photo' | 'mailName'
+type Param = 'site' | 'unit' | 'opening' | 'covering' | 'client' | 'user' | 'photo' | 'audit' | 'fix' | 'mailName'
 interface Policy {
   public?: true
   roles?: Role[]
@@ -61,6 +61,17 @@ const policies: Record<string, Policy> = {
   'POST /api/coverings/:id/inspections': { roles: staff, param: 'covering', body: { measurements: {} } },
   'GET /api/photos/:id': { roles: everyone, param: 'photo' },
   'GET /api/photos/:id/thumb': { roles: everyone, param: 'photo' },
+  'GET /api/sites/:id/overview': { roles: everyone, param: 'site' },
+  'GET /api/sites/:id/audits': { roles: everyone, param: 'site' },
+  'POST /api/sites/:id/audits': { roles: office, param: 'site' },
+  'GET /api/audits/:id': { roles: everyone, param: 'audit' },
+  'POST /api/audits/:id/close': { roles: office, param: 'audit' },
+  'POST /api/audits/:id/items': { roles: office, param: 'audit' },
+  'GET /api/fixes': { roles: everyone },
+  'GET /api/fixes/:id': { roles: everyone, param: 'fix' },
+  'PATCH /api/fixes/:id': { roles: office, param: 'fix', body: { dueOn: '2027-01-31' } },
+  'GET /api/sites/:id/audit.csv': { roles: ['admin', 'officer', 'manager'], param: 'site' },
+  'GET /api/clients/:id/audit.csv': { roles: ['admin', 'officer', 'manager'], param: 'client' },
   'GET /api/rules': { roles: everyone },
   'POST /api/checks': { roles: everyone },
 }
@@ -85,7 +96,28 @@ function routeFiles(dir: string): Array<{ file: string, key: string }> {
 const routes = routeFiles(join(process.cwd(), 'server/api'))
 let db: pg.Client
 type Ids = Awaited<ReturnType<typeof fixtureIds>>
-let ids: { own: Ids['own'] & { photo: number }, clientTwo: Ids['clientTwo'] & { photo: number }, other: Ids['other'] & { photo: number } }
+type Extra = { photo: number, audit: number, fix: number }
+let ids: { own: Ids['own'] & Extra, clientTwo: Ids['clientTwo'] & Extra, other: Ids['other'] & Extra }
+
+// An audit and a remedy on each side of every boundary, for the audit and remedy routes.
+async function auditOf(client: ApiClient, siteId: number) {
+  const r = await client.post(`/api/sites/${siteId}/audits`)
+  if (r.status > 201) throw new Error(`opening an audit failed: ${r.status} ${JSON.stringify(r.body)}`)
+  return r.body.id as number
+}
+async function fixOf(siteId: number) {
+  const r = await db.query('SELECT id FROM fixes WHERE site_id = $1 ORDER BY id LIMIT 1', [siteId])
+  if (!r.rows[0]) {
+    // The other workspace's demo covering passes; fail it once so it has a remedy.
+    const { rows: [c] } = await db.query('SELECT id FROM coverings WHERE site_id = $1 ORDER BY id LIMIT 1', [siteId])
+    const admin = await signIn(accounts.otherAdmin)
+    const failing = { headHeightMm: 2300, lowestCordPointMm: 400, loopPullOutMm: 500, tensionDevice: false, breakaway: false, warningLabel: true, installerLabel: true, manufacturerLabel: true }
+    const r2 = await admin.post(`/api/coverings/${c.id}/inspections`, { measurements: failing })
+    if (r2.status !== 201) throw new Error(`could not fail the other workspace's covering: ${JSON.stringify(r2.body)}`)
+    return fixOf(siteId)
+  }
+  return Number(r.rows[0].id)
+}
 const clients: Partial<Record<Role, ApiClient>> = {}
 
 beforeAll(async () => {
@@ -95,9 +127,9 @@ beforeAll(async () => {
   // A photo on each side of every boundary, for the photo routes.
   const otherAdmin = await signIn(accounts.otherAdmin)
   ids = {
-    own: { ...base.own, photo: (await uploadPhoto(clients.officer!, base.own.covering)).id },
-    clientTwo: { ...base.clientTwo, photo: (await uploadPhoto(clients.officer!, base.clientTwo.covering)).id },
-    other: { ...base.other, photo: (await uploadPhoto(otherAdmin, base.other.covering)).id },
+    own: { ...base.own, photo: (await uploadPhoto(clients.officer!, base.own.covering)).id, audit: await auditOf(clients.officer!, base.own.site), fix: await fixOf(base.own.site) },
+    clientTwo: { ...base.clientTwo, photo: (await uploadPhoto(clients.officer!, base.clientTwo.covering)).id, audit: await auditOf(clients.officer!, base.clientTwo.site), fix: await fixOf(base.clientTwo.site) },
+    other: { ...base.other, photo: (await uploadPhoto(otherAdmin, base.other.covering)).id, audit: await auditOf(otherAdmin, base.other.site), fix: await fixOf(base.other.site) },
   }
 })
 afterAll(async () => { await db?.end() })
