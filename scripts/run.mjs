@@ -36,14 +36,30 @@ function checkNode() {
   if (major < 20 || (major === 20 && minor < 19)) fail(`Node ${process.versions.node} is too old: Tautline needs Node 20.19 or later.`)
 }
 
+// Two runs must never install at once: npm ci empties node_modules first.
 function ensurePackages() {
-  const lock = join(root, 'package-lock.json')
+  const lockFile = join(root, 'package-lock.json')
   const stamp = join(root, 'node_modules', '.tautline-lock-hash')
-  const want = createHash('sha256').update(readFileSync(lock)).digest('hex')
+  const want = createHash('sha256').update(readFileSync(lockFile)).digest('hex')
   if (existsSync(stamp) && readFileSync(stamp, 'utf8') === want) return
-  log('installing packages (npm ci)')
-  run('npm', ['ci', '--no-audit', '--no-fund'])
-  writeFileSync(stamp, want)
+  const guard = join(root, '.install.lock')
+  for (;;) {
+    try { writeFileSync(guard, String(process.pid), { flag: 'wx' }); break }
+    catch {
+      if (!pidAlive(guard)) { rmSync(guard, { force: true }); continue }
+      log('another run is installing packages; waiting')
+      spawnSync('sleep', ['2'])
+    }
+  }
+  try {
+    if (existsSync(stamp) && readFileSync(stamp, 'utf8') === want) return
+    log('installing packages (npm ci)')
+    run('npm', ['ci', '--no-audit', '--no-fund'])
+    writeFileSync(stamp, want)
+  }
+  finally {
+    rmSync(guard, { force: true })
+  }
 }
 
 function aptInstall(packages, why) {
