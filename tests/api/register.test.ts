@@ -151,3 +151,14 @@ describe('inspections are evidence', () => {
     expect(latest.findings.every((f: { source: string, basis: string }) => f.source && f.basis)).toBe(true)
   })
 })
+
+describe('the team list', () => {
+  it('gives an officer the active staff of their own workspace only', async () => {
+    const r = await officer.get('/api/team')
+    expect(r.status).toBe(200)
+    const emails = r.body.items.map((u: { name: string }) => u.name)
+    expect(emails).toContain('Sam Ferrow')
+    expect(emails).not.toContain('Priya Marsh')
+    expect(emails).not.toContain('Other Installer')
+  })
+})
