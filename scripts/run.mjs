@@ -331,7 +331,7 @@ async function test() {
     rmSync(join(root, '.data', 'test'), { recursive: true, force: true })
   }
   const { env, profile, dataDir } = await services('test')
-  const testEnv = { ...env, TAUTLINE_TEST: '1', APP_URL: `http://127.0.0.1:${profile.appPort}` }
+  const testEnv = { ...env, TAUTLINE_TEST: '1', APP_URL: `http://127.0.0.1:${profile.appPort}`, LOG_FILE: process.env.LOG_FILE ?? join(dataDir, 'server.log') }
   tsx('migrate.ts', [], testEnv)
   tsx('seed.ts', ['--demo', '--other-workspace'], testEnv)
   build(testEnv)
