@@ -357,13 +357,19 @@ async function main() {
   if (command === 'start') return start()
   if (command === 'test') return test()
   if (command === 'stop') { stopServices('dev'); stopServices('test'); return }
+  if (command === 'backup' || command === 'restore') {
+    ensurePackages()
+    const { env } = await services(process.env.TAUTLINE_PROFILE ?? 'dev')
+    tsx(`${command}.ts`, process.argv.slice(3), env)
+    return
+  }
   if (command === 'services') {
     ensurePackages()
     const { env } = await services(process.argv[3] ?? 'dev')
     for (const k of ['DATABASE_URL', 'S3_ENDPOINT', 'S3_BUCKET', 'SMTP_URL', 'MAIL_DIR']) if (env[k]) process.stdout.write(`${k}=${env[k]}\n`)
     return
   }
-  fail(`unknown command ${command}: use start, test, stop or services`)
+  fail(`unknown command ${command}: use start, test, stop, services, backup or restore`)
 }
 
 main().catch(err => fail(err?.stack ?? String(err)))
