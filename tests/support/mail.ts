@@ -9,7 +9,15 @@ const dir = () => {
 }
 
 function decodeQuotedPrintable(s: string) {
-  return s.replace(/=\r?\n/g, '').replace(/=([0-9A-F]{2})/g, (_, h: string) => String.fromCharCode(Number.parseInt(h, 16)))
+  const bytes = s.replace(/=\r?\n/g, '').replace(/=([0-9A-F]{2})/g, (_, h: string) => String.fromCharCode(Number.parseInt(h, 16)))
+  return Buffer.from(bytes, 'latin1').toString('utf8')
+}
+
+/** Headers with non-ASCII text arrive as RFC 2047 encoded words; turn them back into text. */
+function decodeHeader(value: string) {
+  return value.replace(/=\?utf-8\?([qb])\?([^?]*)\?=\s*/gi, (_, enc: string, text: string) => enc.toLowerCase() === 'b'
+    ? Buffer.from(text, 'base64').toString('utf8')
+    : Buffer.from(text.replace(/_/g, ' ').replace(/=([0-9A-F]{2})/gi, (_m: string, h: string) => String.fromCharCode(Number.parseInt(h, 16))), 'latin1').toString('utf8'))
 }
 
 export interface StoredMail { file: string, raw: string, to: string, subject: string, text: string }
@@ -19,7 +27,7 @@ export function messagesTo(address: string): StoredMail[] {
     const raw = readFileSync(join(dir(), file), 'utf8')
     const head = raw.split(/\r?\n\r?\n/, 1)[0]!.replace(/\r?\n[ \t]+/g, ' ')
     const header = (n: string) => head.split(/\r?\n/).find(l => l.toLowerCase().startsWith(`${n}:`))?.slice(n.length + 1).trim() ?? ''
-    return { file, raw, to: header('to'), subject: header('subject'), text: decodeQuotedPrintable(raw) }
+    return { file, raw, to: decodeHeader(header('to')), subject: decodeHeader(header('subject')), text: decodeQuotedPrintable(raw) }
   }).filter(m => m.to.toLowerCase().includes(address.toLowerCase()))
 }
 
