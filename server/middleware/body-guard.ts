@@ -2,6 +2,8 @@
 // oversized body gets a clear 4xx naming `body` before any handler runs.
 const JSON_LIMIT_BYTES = 1024 * 1024
 const UPLOAD_LIMIT_BYTES = 16 * 1024 * 1024 + 256 * 1024
+// Only these routes take files; everywhere else multipart is the wrong kind of body.
+const UPLOAD_ROUTES = /^\/api\/(coverings\/[^/]+\/photos|imports)\/?(\?|$)/
 
 export default defineEventHandler(async (event) => {
   if (!event.path.startsWith('/api/') || !['POST', 'PATCH', 'PUT'].includes(event.method)) return
@@ -12,7 +14,10 @@ export default defineEventHandler(async (event) => {
   if (length > limit) {
     throw createError({ statusCode: 413, message: `body: larger than ${Math.round(limit / 1048576)} MB`, data: { fields: { body: 'too large' } } })
   }
-  if (multipart) return
+  if (multipart) {
+    if (!UPLOAD_ROUTES.test(event.path)) throw createError({ statusCode: 415, message: 'body: send JSON (application/json), not multipart/form-data', data: { fields: { body: 'wrong content type' } } })
+    return
+  }
   if (type && !type.startsWith('application/json') && !type.startsWith('text/plain')) {
     throw createError({ statusCode: 415, message: `body: send JSON (application/json), not ${type.split(';')[0]}`, data: { fields: { body: 'wrong content type' } } })
   }

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { listQuerySchema } from './common'
+import { idValue, listQuerySchema } from './common'
 
 export const auditItemSchema = z.object({
   coveringId: z.number({ error: 'coveringId must be a number' }).int().positive(),
@@ -12,9 +12,9 @@ export const auditCloseSchema = z.object({
 })
 
 export const fixListQuery = listQuerySchema(['dueOn', 'priority', 'createdAt', 'clause'], 'dueOn').extend({
-  siteId: z.coerce.number().int().positive().max(2_147_483_647).optional(),
-  coveringId: z.coerce.number().int().positive().max(2_147_483_647).optional(),
-  assigneeId: z.coerce.number().int().positive().max(2_147_483_647).optional(),
+  siteId: idValue('siteId').optional(),
+  coveringId: idValue('coveringId').optional(),
+  assigneeId: idValue('assigneeId').optional(),
   status: z.enum(['open', 'closed', 'all'], { error: 'status must be open, closed or all' }).default('open'),
   overdue: z.enum(['true', 'false'], { error: 'overdue must be true or false' }).optional(),
   priority: z.coerce.number().int().min(1).max(4, 'priority is 1 to 4').optional(),

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { roles } from './common'
+import { roles, someFieldOf } from './common'
 
 export const emailSchema = z.string({ error: 'email is required' }).trim().toLowerCase()
   .max(254, 'email is too long').pipe(z.email({ error: 'email is not a valid address' }))
@@ -32,9 +32,9 @@ export const tokenPasswordSchema = z.object({
   name: z.string().trim().min(1).max(120).optional(),
 })
 
-export const userPatchSchema = z.object({
+export const userPatchSchema = someFieldOf(z.object({
   role: z.enum(roles).optional(),
   active: z.boolean().optional(),
   name: z.string().trim().min(1).max(120).optional(),
   clientId: z.number().int().positive().nullish(),
-})
+}))

@@ -1,9 +1,16 @@
 import { z } from 'zod'
 
 // Route params and list queries, shared by every resource.
-export const idParamsSchema = z.object({
-  id: z.coerce.number({ error: 'id must be a number' }).int('id must be a whole number').positive('id must be positive').max(2_147_483_647, 'id is out of range'),
-})
+/** An id as a number, or as plain decimal digits in a path or query (no hex, exponents or signs). */
+export function idValue(field: string) {
+  return z.union([
+    z.number({ error: `${field} must be a number` }),
+    z.string().regex(/^\d{1,10}$/, `${field} must be a whole number`).transform(Number),
+  ], { error: `${field} must be a whole number` })
+    .pipe(z.number().int(`${field} must be a whole number`).positive(`${field} must be positive`).max(2_147_483_647, `${field} is out of range`))
+}
+
+export const idParamsSchema = z.object({ id: idValue('id') })
 
 export const roles = ['admin', 'officer', 'installer', 'manager'] as const
 export type Role = typeof roles[number]
@@ -28,3 +35,10 @@ export const requiredText = (max: number, field: string) =>
   z.string({ error: `${field} is required` }).trim().min(1, `${field} is required`).max(max, `${field} is at most ${max} characters`)
 export const refText = (field: string) =>
   requiredText(60, field).regex(/^[\w.\-/ #]+$/u, `${field} may hold letters, digits, spaces and . - / # only`)
+
+/** A PATCH body must change something: an empty or all-unknown body is a mistake worth naming. */
+export function someFieldOf<T extends z.ZodObject>(schema: T) {
+  const names = Object.keys(schema.shape)
+  return schema.refine(v => Object.values(v as Record<string, unknown>).some(x => x !== undefined),
+    { message: `nothing to change: send at least one of ${names.join(', ')}`, path: ['body'] })
+}

@@ -1,12 +1,12 @@
 import { z } from 'zod'
 import { controlTypes, jurisdictions, madeToValues, premisesTypes, productTypes } from '../../rules'
-import { listQuerySchema, optionalText, refText, requiredText } from './common'
+import { idValue, listQuerySchema, optionalText, refText, requiredText, someFieldOf } from './common'
 import { emailSchema } from './auth'
 
 // Create and update bodies for the register: clients, sites, units, openings, coverings.
 const enumOf = <T extends readonly [string, ...string[]]>(values: T, field: string) =>
   z.enum(values, { error: `${field} must be one of ${values.join(', ')}` })
-const idOf = (field: string) => z.coerce.number({ error: `${field} must be a number` }).int().positive(`${field} must be positive`).max(2_147_483_647)
+const idOf = (field: string) => idValue(field)
 const mmOf = (field: string, max = 10_000) =>
   z.number({ error: `${field} must be a number of millimetres` }).int(`${field} is whole millimetres`).positive(`${field} must be above 0 mm`).max(max, `${field} above ${max} mm is not a real window`).nullish().transform(v => v ?? null)
 
@@ -17,7 +17,7 @@ export const clientCreateSchema = z.object({
   phone: optionalText(40, 'phone'),
   reinspectIntervalMonths: z.number({ error: 'reinspectIntervalMonths must be a number' }).int().min(1).max(120).optional(),
 })
-export const clientPatchSchema = clientCreateSchema.partial()
+export const clientPatchSchema = someFieldOf(clientCreateSchema.partial())
 export const clientListQuery = listQuerySchema(['name', 'createdAt'], 'name')
 
 export const siteCreateSchema = z.object({
@@ -29,7 +29,7 @@ export const siteCreateSchema = z.object({
   premises: enumOf(premisesTypes, 'premises'),
   notes: optionalText(2000, 'notes'),
 })
-export const sitePatchSchema = siteCreateSchema.omit({ clientId: true }).partial()
+export const sitePatchSchema = someFieldOf(siteCreateSchema.omit({ clientId: true }).partial())
 export const siteListQuery = listQuerySchema(['name', 'ref', 'jurisdiction', 'updatedAt', 'failing'], 'name').extend({
   clientId: idOf('clientId').optional(),
   jurisdiction: enumOf(jurisdictions, 'jurisdiction').optional(),
@@ -43,21 +43,26 @@ export const unitCreateSchema = z.object({
   floor: optionalText(40, 'floor'),
   notes: optionalText(2000, 'notes'),
 })
-export const unitPatchSchema = unitCreateSchema.omit({ siteId: true }).partial()
+export const unitPatchSchema = someFieldOf(unitCreateSchema.omit({ siteId: true }).partial())
 export const unitListQuery = listQuerySchema(['ref', 'name', 'createdAt'], 'ref').extend({ siteId: idOf('siteId').optional() })
 
 export const openingKinds = ['window', 'door', 'other'] as const
-export const openingCreateSchema = z.object({
+const openingFields = z.object({
   unitId: idOf('unitId'),
   ref: refText('ref'),
   room: requiredText(80, 'room'),
-  kind: enumOf(openingKinds, 'kind').default('window'),
-  childrensRoom: z.boolean({ error: 'childrensRoom must be true or false' }).default(false),
+  kind: enumOf(openingKinds, 'kind'),
+  childrensRoom: z.boolean({ error: 'childrensRoom must be true or false' }),
   recessWidthMm: mmOf('recessWidthMm'),
   recessHeightMm: mmOf('recessHeightMm'),
   notes: optionalText(2000, 'notes'),
 })
-export const openingPatchSchema = openingCreateSchema.omit({ unitId: true }).partial()
+export const openingCreateSchema = openingFields.extend({
+  kind: openingFields.shape.kind.default('window'),
+  childrensRoom: openingFields.shape.childrensRoom.default(false),
+})
+// No defaults here: a PATCH that leaves a field out must leave it as it is.
+export const openingPatchSchema = someFieldOf(openingFields.omit({ unitId: true }).partial())
 export const openingListQuery = listQuerySchema(['ref', 'room', 'createdAt'], 'ref').extend({
   siteId: idOf('siteId').optional(), unitId: idOf('unitId').optional(),
 })
@@ -81,9 +86,9 @@ export const coveringCreateSchema = z.object({
   manufacturedOn: z.string().regex(/^\d{4}-(0[1-9]|1[0-2])(-(0[1-9]|[12]\d|3[01]))?$/, 'manufacturedOn is YYYY-MM or YYYY-MM-DD').nullish().transform(v => v ?? null),
   installedOn: z.iso.date({ error: 'installedOn is a date, YYYY-MM-DD' }).nullish().transform(v => v ?? null),
 })
-export const coveringPatchSchema = coveringCreateSchema.omit({ openingId: true }).partial().extend({
+export const coveringPatchSchema = someFieldOf(coveringCreateSchema.omit({ openingId: true }).partial().extend({
   status: z.enum(['in_place', 'removed'], { error: 'status must be in_place or removed' }).optional(),
-})
+}))
 export const coveringListQuery = listQuerySchema(['ref', 'productType', 'control', 'lastVerdict', 'lastInspectedAt'], 'ref').extend({
   siteId: idOf('siteId').optional(),
   unitId: idOf('unitId').optional(),

@@ -1,10 +1,10 @@
 import { QueryTypes } from 'sequelize'
 import { z } from 'zod'
-import { listQuerySchema } from '#shared/schemas/common'
+import { idValue, listQuerySchema } from '#shared/schemas/common'
 
 const query = listQuerySchema(['at'], '-at').extend({
   entity: z.enum(['user', 'client', 'site', 'unit', 'opening', 'covering']).optional(),
-  entityId: z.coerce.number().int().positive().max(2_147_483_647).optional(),
+  entityId: idValue('entityId').optional(),
 })
 
 export default defineEventHandler(async (event) => {

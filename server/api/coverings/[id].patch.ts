@@ -3,11 +3,12 @@ import { coveringPatchSchema } from '#shared/schemas/register'
 import { Covering } from '../../models'
 import { updateLogged } from '../../services/records'
 
+// Tenant first, then the body: another tenant's record is 404 whatever was sent.
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, ['admin', 'officer', 'installer'])
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
-  const body = await readValidatedBody(event, validateWith(coveringPatchSchema))
   const { record } = await requireInSite(event, Covering, id)
+  const body = await readValidatedBody(event, validateWith(coveringPatchSchema))
   await uniqueOr409(() => updateLogged(record, body, user, 'covering'), 'ref', 'covering on this site')
   return record.toJSON()
 })

@@ -7,9 +7,9 @@ import { revokeSessions } from '../../services/accounts'
 export default defineEventHandler(async (event) => {
   const admin = await requireRole(event, ['admin'])
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
-  const body = await readValidatedBody(event, validateWith(userPatchSchema))
   const user = await User.findOne({ where: { id, workspaceId: admin.workspaceId } })
   if (!user) throw createError({ statusCode: 404, message: 'User not found' })
+  const body = await readValidatedBody(event, validateWith(userPatchSchema))
   if (user.id === admin.id && (body.active === false || (body.role && body.role !== 'admin'))) {
     throw createError({ statusCode: 400, message: 'role: you cannot remove your own admin access', data: { fields: { role: 'own account' } } })
   }

@@ -1,0 +1,109 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type pg from 'pg'
+import { ApiClient, accounts, baseUrl, database, fixtureIds, signIn } from '../support/api'
+import { routeFiles } from '../support/routes'
+
+// A generated campaign of malformed requests against every route under server/api. Every answer must
+// be a 4xx whose message names the field (or `body`, `id`), never a 5xx, and nothing may be written.
+
+const badIds = ['abc', '-1', '0', '1.5', '99999999999999', '1e3', `1'OR'1'='1`, '%00', 'null', '0x10', '..%2F..%2Fetc%2Fpasswd']
+const fields = ['name', 'ref', 'email', 'password', 'siteId', 'unitId', 'openingId', 'clientId', 'coveringId', 'widthMm', 'measurements',
+  'kind', 'status', 'reason', 'dueOn', 'assigneeId', 'to', 'scope', 'id', 'role', 'productType', 'control', 'jurisdiction', 'token']
+// Wrong types, absurd sizes and lengths; an unknown choice only where the field is a choice.
+const badValues: unknown[] = [{ nested: { deeper: true } }, 'x'.repeat(100_000), -1, 1e15, [], true]
+const choiceFields = new Set(['kind', 'status', 'scope', 'role', 'productType', 'control', 'jurisdiction'])
+const rawBodies = ['not json{', '{"a":', '[]', 'null', '"text"', '12', 'true', '{"name": "\u0000"']
+const badQueries = ['page=-1', 'pageSize=abc', 'pageSize=100000', 'sort=password', `q=${'x'.repeat(5000)}`, 'page=1e99', 'siteId=abc', 'status=zzz']
+// Routes whose body is ignored or that end the caller's session; their body variants prove nothing.
+const bodiless = new Set(['POST /api/auth/logout', 'POST /api/sites/:id/audits'])
+const evidenceAndRegister = ['workspaces', 'clients', 'users', 'sites', 'units', 'openings', 'coverings', 'inspections', 'findings', 'photos', 'inspection_photos', 'audits', 'audit_items', 'fixes', 'report_dispatches']
+
+let db: pg.Client
+let admin: ApiClient
+let manager: ApiClient
+let ownIds: Record<string, number>
+const outcomes: Array<{ route: string, variant: string, status: number, message: unknown, fields: unknown }> = []
+
+async function counts() {
+  const out: Record<string, number> = {}
+  for (const t of evidenceAndRegister) out[t] = (await db.query(`SELECT count(*)::int AS n FROM ${t}`)).rows[0].n
+  return out
+}
+
+function resourceId(path: string): string {
+  const resource = path.split('/')[2]!
+  const key = { sites: 'site', units: 'unit', openings: 'opening', coverings: 'covering', clients: 'client', users: 'user', photos: 'photo', audits: 'audit', fixes: 'fix' }[resource]
+  return String((key && ownIds[key]) ?? 1)
+}
+
+async function send(client: ApiClient, route: string, variant: string, method: string, path: string, body?: BodyInit, headers: Record<string, string> = {}) {
+  const res = await fetch(baseUrl + path, { method, body, headers: { cookie: client.cookie ?? '', ...headers } })
+  const text = await res.text()
+  let parsed: { message?: unknown, data?: { fields?: unknown } } = {}
+  try { parsed = JSON.parse(text) } catch { /* non-JSON (PDF, CSV, image) */ }
+  outcomes.push({ route, variant, status: res.status, message: parsed.message, fields: parsed.data?.fields })
+}
+
+beforeAll(async () => {
+  db = await database()
+  const ids = await fixtureIds(db)
+  const latest = async (table: string) => Number((await db.query(`SELECT id FROM ${table} ORDER BY id DESC LIMIT 1`)).rows[0]?.id ?? 1)
+  ownIds = { ...ids.own, photo: await latest('photos'), audit: await latest('audits'), fix: await latest('fixes') }
+  admin = await signIn(accounts.admin)
+  manager = await signIn(accounts.manager)
+})
+afterAll(async () => { await db.end() })
+
+const routes = routeFiles().filter(r => !r.key.startsWith('NO-METHOD'))
+let before: Record<string, number>
+
+describe('malformed requests across every route', () => {
+  beforeAll(async () => { before = await counts() })
+
+  for (const { key } of routes) {
+    it(`${key}: answers each malformed request with a 4xx naming the field, never a 5xx`, { timeout: 120_000 }, async () => {
+      const mark = outcomes.length
+      await campaign(key)
+      const mine = outcomes.slice(mark)
+      const serverErrors = mine.filter(o => o.status >= 500)
+      expect(serverErrors.map(o => `[${o.variant}] → ${o.status} ${String(o.message)}`)).toEqual([])
+      const accepted = mine.filter(o => o.status < 400 && !o.route.startsWith('GET'))
+      expect(accepted.map(o => `[${o.variant}] → ${o.status}`), 'a malformed write was accepted').toEqual([])
+      const unnamed = mine.filter((o) => {
+        if (o.status !== 400) return false
+        const keys = o.fields && typeof o.fields === 'object' ? Object.keys(o.fields) : []
+        return typeof o.message !== 'string' || !keys.some(k => (o.message as string).includes(k.split('.').pop()!))
+      })
+      expect(unnamed.map(o => `[${o.variant}] → ${String(o.message)} ${JSON.stringify(o.fields)}`), '400s must name the field').toEqual([])
+    })
+  }
+
+  it('sent at least 1,000 malformed requests and wrote no row anywhere', async () => {
+    expect(outcomes.length).toBeGreaterThanOrEqual(1000)
+    expect(await counts()).toEqual(before)
+  })
+})
+
+async function campaign(key: string) {
+  const [method, template] = key.split(' ') as [string, string]
+  const path = template.replace(/:(\w+)/, (_, p: string) => (p === 'name' ? 'no-such.eml' : resourceId(template)))
+  // Use a role the route lets in, so the input checks are what answers.
+  const probe = await admin.request(method, path, method === 'GET' ? undefined : {})
+  const client = probe.status === 403 ? manager : admin
+  if (template.includes(':')) {
+    for (const id of badIds) await send(client, key, `id=${id}`, method, template.replace(/:\w+/, id), method === 'GET' ? undefined : '{}', { 'content-type': 'application/json' })
+  }
+  if (method === 'GET') {
+    for (const q of badQueries) await send(client, key, `query ${q.slice(0, 20)}`, method, `${path}?${q}`)
+    return
+  }
+  if (bodiless.has(key)) return
+  for (const raw of rawBodies) await send(client, key, `raw ${raw}`, method, path, raw, { 'content-type': 'application/json' })
+  for (const field of fields) {
+    for (const value of choiceFields.has(field) ? [...badValues, 'zzz-not-a-choice'] : badValues) await send(client, key, `${field}=${JSON.stringify(value).slice(0, 20)}`, method, path, JSON.stringify({ [field]: value }), { 'content-type': 'application/json' })
+  }
+  await send(client, key, 'oversized', method, path, JSON.stringify({ name: 'x'.repeat(2 * 1024 * 1024) }), { 'content-type': 'application/json' })
+  await send(client, key, 'wrong encoding', method, path, new Uint8Array([0x7B, 0xFF, 0xFE, 0x22, 0xC3, 0x28, 0x7D]), { 'content-type': 'application/json' })
+  await send(client, key, 'xml', method, path, '<site><name>x</name></site>', { 'content-type': 'application/xml' })
+  await send(client, key, 'broken multipart', method, path, '--xyz\r\nContent-Disposition: form-data; name="file"\r\n\r\nnot closed', { 'content-type': 'multipart/form-data; boundary=xyz' })
+}
