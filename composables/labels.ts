@@ -91,6 +91,42 @@ export const basisLabels: Record<string, string> = {
   memory: 'Unverified figure',
 }
 
+/** What each basis means, in a line, for the rulebook page. */
+export const basisNotes: Record<string, string> = {
+  published: 'Read in the published text of the document.',
+  secondary: 'Taken from a secondary source (a summary or guide); the original text was not read.',
+  common_practice: 'Common trade practice; no published source.',
+  memory: 'Recalled from memory and not checked against a source: confirm before relying on it.',
+}
+
+export const clauseKindLabels: Record<string, string> = {
+  requirement: 'Requirement',
+  advice: 'Advice',
+  history: 'Withdrawn',
+}
+
+export const photoKindLabels: Record<string, string> = {
+  whole: 'Whole covering',
+  tension_device: 'Tension device',
+  cleat: 'Cleat',
+  labels: 'Labels',
+  defect: 'Defect',
+}
+
+export const deviceFixingLabels: Record<string, string> = {
+  timber: 'Screws into timber',
+  masonry_plugs: 'Masonry with plugs',
+  plasterboard_anchor: 'Plasterboard anchor',
+  metal_frame: 'Metal frame',
+  adhesive: 'Adhesive',
+}
+
+export const openingKindLabels: Record<string, string> = {
+  window: 'Window',
+  door: 'Door',
+  other: 'Other opening',
+}
+
 /** Looks a code up in a label map, falling back to the code with underscores as spaces. */
 export function labelOf(map: Record<string, string>, code: string | null | undefined, empty = '—'): string {
   if (!code) return empty
@@ -125,6 +161,7 @@ const fieldNames: Record<string, string> = {
   climbableFurnitureNearby: 'Climbable furniture nearby',
   childrensRoom: 'Children\'s room',
   longerCordRequested: 'Longer cord requested',
+  deviceFixing: 'Device fixed into',
   installedOn: 'Installed on',
   manufacturedOn: 'Manufactured',
   madeTo: 'Made to',
@@ -155,6 +192,8 @@ export const entityLabels: Record<string, string> = {
   unit: 'Unit',
   opening: 'Opening',
   covering: 'Covering',
+  fix: 'Remedy',
+  report_dispatch: 'Report',
 }
 
 const actionWords: Record<string, string> = {
@@ -168,6 +207,15 @@ const actionWords: Record<string, string> = {
   'inspection.audit': 'Recorded an audit',
   'inspection.import': 'Imported an inspection',
   'inspection.correction': 'Recorded a correction',
+  'audit.opened': 'Started a site audit',
+  'audit.closed': 'Closed a site audit',
+  'audit.not_accessible': 'Marked a covering not accessible',
+  'fix.raised': 'A remedy was raised',
+  'fix.closed': 'A remedy was closed',
+  'fix.updated': 'Changed a remedy',
+  'report.sent': 'E-mailed a report',
+  'report.queued': 'A report e-mail was queued for retry',
+  'report.failed': 'A report e-mail failed',
 }
 
 /** An activity code such as `site.created` in words: "Created a site". */
@@ -179,4 +227,25 @@ export function actionLabel(action: string): string {
   if (verb === 'created') return `Added ${article} ${noun}`
   if (verb === 'updated') return `Changed ${article} ${noun}`
   return action.replaceAll('_', ' ').replace('.', ': ')
+}
+
+/** A remedy's priority in words; days mirror daysToRemedy in server/services/fixes.ts. */
+export const priorityLabels: Record<number, { name: string, meaning: string, days: number }> = {
+  1: { name: 'Urgent', meaning: 'A cord or loop that fails its rule where young children sleep or play (a children\'s room, childcare or school).', days: 2 },
+  2: { name: 'High', meaning: 'A cord or loop that fails its rule anywhere else.', days: 7 },
+  3: { name: 'Labelling', meaning: 'A warning, maker\'s or installer\'s label or swing tag is missing.', days: 14 },
+  4: { name: 'Routine', meaning: 'Anything else the rules ask for.', days: 28 },
+}
+
+export const auditItemLabels: Record<string, string> = {
+  pending: 'To do',
+  measured: 'Re-measured',
+  confirmed: 'Confirmed unchanged',
+  not_accessible: 'Not accessible',
+}
+
+export const dispatchStatusLabels: Record<string, string> = {
+  sent: 'Sent',
+  queued: 'Queued for retry',
+  failed: 'Not delivered',
 }

@@ -5,16 +5,19 @@ export interface NavItem { to: string, label: string, icon: string }
 const sites: NavItem = { to: '/sites', label: 'Sites', icon: 'sites' }
 const clients: NavItem = { to: '/clients', label: 'Clients', icon: 'clients' }
 const activity: NavItem = { to: '/activity', label: 'Activity', icon: 'activity' }
+const fit: NavItem = { to: '/fit', label: 'Fit', icon: 'ruler' }
+const rulebook: NavItem = { to: '/rulebook', label: 'Rulebook', icon: 'shield' }
+const remedies: NavItem = { to: '/remedies', label: 'Remedies', icon: 'check' }
 
 // Each role sees only the places it can use; the home page is named for what it shows that role.
 const byRole: Record<Role, NavItem[]> = {
-  installer: [{ to: '/', label: 'Today', icon: 'today' }, sites],
-  officer: [{ to: '/', label: 'Overview', icon: 'overview' }, sites, clients, activity],
-  manager: [{ to: '/', label: 'Portfolio', icon: 'portfolio' }, sites],
+  installer: [{ to: '/', label: 'Today', icon: 'today' }, fit, sites, remedies, rulebook],
+  officer: [{ to: '/', label: 'Overview', icon: 'overview' }, fit, sites, remedies, clients, activity, rulebook],
+  manager: [{ to: '/', label: 'Portfolio', icon: 'portfolio' }, sites, remedies, rulebook],
   admin: [
-    { to: '/', label: 'Overview', icon: 'overview' }, sites, clients,
+    { to: '/', label: 'Overview', icon: 'overview' }, fit, sites, remedies, clients,
     { to: '/users', label: 'Users', icon: 'users' }, activity,
-    { to: '/mailbox', label: 'Mailbox', icon: 'mail' },
+    { to: '/mailbox', label: 'Mailbox', icon: 'mail' }, rulebook,
   ],
 }
 
