@@ -22,7 +22,7 @@ describe('signing in and opening a site', () => {
         await page.waitForURL(/\/sites\/\d+/)
         await expect(page.getByRole('heading', { level: 1, name: /Wattle Court/ })).toBeTruthy()
         await page.getByText('27 Ironbark Street').first().waitFor()
-        await page.getByText('WAT-1-02').first().waitFor()
+        await page.getByRole('link', { name: 'WAT-1-02' }).first().waitFor()
         expect(await seriousViolations(page), 'site page').toEqual([])
       }
       finally {
