@@ -1,14 +1,11 @@
-import { existsSync } from 'node:fs'
-import { readFile } from 'node:fs/promises'
-import { createRequire } from 'node:module'
-import { join } from 'node:path'
-import * as fontkitModule from '@pdf-lib/fontkit'
 import { PDFDocument, PrintScaling, rgb } from 'pdf-lib'
-import type { Color, PDFFont, PDFPage } from 'pdf-lib'
+import type { Color, PDFPage } from 'pdf-lib'
 import { create as createQr } from 'qrcode'
 import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
 import { z } from 'zod'
+import { drawable, embedPublicSans, fontCoverage, needsExt, textRuns } from './pdf-fonts'
+import type { Coverage, Face, Run, Weight } from './pdf-fonts'
 
 // Installer labels: one sticker per fitted covering, naming the business that fitted it, with a QR code
 // back to the covering's record and a child-safety caution. Plain module so scripts can print labels too.
@@ -101,93 +98,15 @@ export function labelPdfHeaders(ref: string): Record<string, string> {
 }
 
 // ---------------------------------------------------------------------------------------------
-// Fonts: Public Sans from @fontsource. fontkit reads WOFF 1.0 directly, so no conversion is needed.
+// Text on a label: Public Sans (loaded by pdf-fonts.ts), with the Latin Extended subset where a name needs it.
 
-type FontKit = typeof fontkitModule
-type KitFont = ReturnType<FontKit['create']>
-// The package is UMD: under Node's ESM loader its API sits on `default`, under a bundler on the namespace.
-const fontkit: FontKit = (fontkitModule as FontKit & { default?: FontKit }).default ?? fontkitModule
-
-const fontFiles = {
-  regular: 'public-sans-latin-400-normal.woff',
-  bold: 'public-sans-latin-700-normal.woff',
-  // Letters outside Latin-1 (Ł, ő, ș…) live in a second subset, embedded only when a label needs them.
-  regularExt: 'public-sans-latin-ext-400-normal.woff',
-  boldExt: 'public-sans-latin-ext-700-normal.woff',
-} as const
-type FontFile = keyof typeof fontFiles
-
-/**
- * Where a font file sits. The built server (.output/server) carries only traced JavaScript, so look in the
- * project's node_modules from the working directory first (npm start and npm test run from the root).
- */
-function fontPath(file: string): string {
-  const fromCwd = join(process.cwd(), 'node_modules', '@fontsource', 'public-sans', 'files', file)
-  if (existsSync(fromCwd)) return fromCwd
-  return createRequire(import.meta.url).resolve(`@fontsource/public-sans/files/${file}`)
-}
-
-const fontBytesCache = new Map<FontFile, Promise<Uint8Array>>()
-const kitCache = new Map<FontFile, KitFont>()
-
-function fontBytes(which: FontFile): Promise<Uint8Array> {
-  let bytes = fontBytesCache.get(which)
-  if (!bytes) {
-    bytes = readFile(fontPath(fontFiles[which])).then(b => new Uint8Array(b))
-    // A failed read is not cached, so a later request can try again.
-    bytes.catch(() => fontBytesCache.delete(which))
-    fontBytesCache.set(which, bytes)
-  }
-  return bytes
-}
-
-async function kitFont(which: FontFile): Promise<KitFont> {
-  let font = kitCache.get(which)
-  if (!font) {
-    font = fontkit.create(await fontBytes(which))
-    kitCache.set(which, font)
-  }
-  return font
-}
-
-/** One weight of Public Sans: the Latin subset, and the Latin Extended one when a label needs it. */
-interface Face { main: PDFFont, ext: PDFFont | null }
-interface Coverage { main: KitFont, ext: KitFont }
-
-type Weight = 'regular' | 'bold'
-interface Run { text: string, font: PDFFont }
 interface Word { text: string, weight: Weight }
-
-/** Replaces characters neither subset can draw: first by their unaccented letter, else by '?'. */
-function drawable(text: string, coverage: Coverage): string {
-  const has = (cp: number) => coverage.main.hasGlyphForCodePoint(cp) || coverage.ext.hasGlyphForCodePoint(cp)
-  let out = ''
-  for (const ch of text.normalize('NFC').replace(/\s+/g, ' ').trim()) {
-    const base = ch.normalize('NFKD').replace(/\p{M}/gu, '')
-    if (has(ch.codePointAt(0)!)) out += ch
-    else out += base && [...base].every(b => has(b.codePointAt(0)!)) ? base : '?'
-  }
-  return out
-}
-
-function needsExt(text: string, coverage: Coverage): boolean {
-  for (const ch of text) if (!coverage.main.hasGlyphForCodePoint(ch.codePointAt(0)!)) return true
-  return false
-}
 
 class Typesetter {
   constructor(private readonly faces: { regular: Face, bold: Face }, private readonly coverage: Coverage) {}
 
   runs(text: string, weight: Weight): Run[] {
-    const face = this.faces[weight]
-    const out: Run[] = []
-    for (const ch of text) {
-      const font = face.ext && !this.coverage.main.hasGlyphForCodePoint(ch.codePointAt(0)!) ? face.ext : face.main
-      const last = out[out.length - 1]
-      if (last && last.font === font) last.text += ch
-      else out.push({ text: ch, font })
-    }
-    return out
+    return textRuns(text, this.faces[weight], this.coverage)
   }
 
   widthPt(text: string, weight: Weight, sizePt: number): number {
@@ -446,7 +365,7 @@ export async function renderLabelsPdf(labels: LabelData[], options: { sheet: She
   }
   if (labels.length === 0) throw new RangeError('no labels to render')
 
-  const coverage: Coverage = { main: await kitFont('regular'), ext: await kitFont('regularExt') }
+  const coverage = await fontCoverage()
   const cleaned = labels.map(l => ({
     ...l,
     coveringRef: drawable(l.coveringRef, coverage),
@@ -462,7 +381,6 @@ export async function renderLabelsPdf(labels: LabelData[], options: { sheet: She
   }))
 
   const doc = await PDFDocument.create()
-  doc.registerFontkit(fontkit)
   doc.setTitle(options.title ?? `${PRODUCT_NAME} installer labels`)
   doc.setAuthor(PRODUCT_NAME)
   doc.setCreator(PRODUCT_NAME)
@@ -474,11 +392,7 @@ export async function renderLabelsPdf(labels: LabelData[], options: { sheet: She
 
   const allText = cleaned.flatMap(l => [l.coveringRef, l.siteName, l.unitRef, l.room, l.business.name, l.business.phone ?? '', l.business.email ?? '', l.business.licenceNumber ?? ''])
   const withExt = allText.some(text => needsExt(text, coverage))
-  const embed = async (which: FontFile) => doc.embedFont(await fontBytes(which), { subset: true })
-  const faces = {
-    regular: { main: await embed('regular'), ext: withExt ? await embed('regularExt') : null },
-    bold: { main: await embed('bold'), ext: withExt ? await embed('boldExt') : null },
-  }
+  const faces = await embedPublicSans(doc, withExt)
   const typesetter = new Typesetter(faces, coverage)
 
   let page: PDFPage | null = null
