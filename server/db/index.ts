@@ -5,6 +5,7 @@ import { initModels } from '../models'
 import * as foundation from '../migrations/0001-foundation'
 import * as fitting from '../migrations/0002-fitting'
 import * as audits from '../migrations/0003-audits'
+import * as reportFiles from '../migrations/0004-report-files'
 
 // Plain module (no Nitro auto-imports) so scripts and the server share one way to connect.
 
@@ -34,6 +35,7 @@ const migrations = [
   { name: '0001-foundation', ...foundation },
   { name: '0002-fitting', ...fitting },
   { name: '0003-audits', ...audits },
+  { name: '0004-report-files', ...reportFiles },
 ]
 
 export function migrator(sequelize: Sequelize) {
