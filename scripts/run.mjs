@@ -6,6 +6,7 @@ import { spawn, spawnSync } from 'node:child_process'
 import { createHash, randomBytes } from 'node:crypto'
 import { existsSync, mkdirSync, readFileSync, writeFileSync, readdirSync, statSync, rmSync, openSync, chmodSync } from 'node:fs'
 import { connect } from 'node:net'
+import { tmpdir } from 'node:os'
 import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
 
@@ -300,10 +301,9 @@ async function start() {
   server.on('exit', code => process.exit(code ?? 0))
 }
 
-// One test run at a time on a machine: runs share the test ports and rebuild .data/test.
+// One test run at a time on a machine, whichever checkout it is in: runs share the test ports.
 async function takeTestLock() {
-  const lock = join(root, '.data', 'test.lock')
-  mkdirSync(dirname(lock), { recursive: true })
+  const lock = join(tmpdir(), `tautline-test-${profiles.test.appPort}.lock`)
   let told = false
   for (;;) {
     try {
