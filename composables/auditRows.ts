@@ -49,28 +49,8 @@ export interface AuditListRow {
   done: number
 }
 
-export interface RemedyRow {
-  id: number
-  siteId: number
-  siteName: string
-  coveringId: number
-  coveringRef: string
-  unitRef: string
-  room: string
-  clause: string
-  message: string
-  fix: string | null
-  source: string
-  priority: number
-  status: 'open' | 'closed'
-  assigneeId: number | null
-  assigneeName: string | null
-  dueOn: string
-  overdue: boolean
-  closedAt: string | null
-  closedByInspectionId: number | null
-  createdAt: string
-}
+// One shape for both sides: the server's remedy rows are typed from the same file.
+export type { RemedyRow } from '#shared/types/audit'
 
 export interface TeamMember { id: number, name: string, role: string }
 

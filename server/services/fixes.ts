@@ -5,6 +5,7 @@ import { Fix } from '../models'
 import type { Inspection, Site } from '../models'
 import { likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
+import type { RemedyRow } from '../../shared/types/audit'
 import { logActivity } from './activity'
 
 // A remedy is the fix one failing clause calls for. It opens when an inspection fails the clause
@@ -69,28 +70,7 @@ export async function applyInspectionToRemedies(db: Sequelize, args: {
   return { raised, closed }
 }
 
-export interface FixRow {
-  id: number
-  siteId: number
-  siteName: string
-  coveringId: number
-  coveringRef: string
-  unitRef: string
-  room: string
-  clause: string
-  message: string
-  fix: string | null
-  source: string
-  priority: number
-  status: 'open' | 'closed'
-  assigneeId: number | null
-  assigneeName: string | null
-  dueOn: string
-  overdue: boolean
-  closedAt: string | null
-  closedByInspectionId: number | null
-  createdAt: string
-}
+export type FixRow = RemedyRow
 
 export const fixSelect = `f.id, f.site_id AS "siteId", s.name AS "siteName", f.covering_id AS "coveringId", c.ref AS "coveringRef",
   u.ref AS "unitRef", o.room, f.clause, f.message, f.fix, f.source, f.priority, f.status, f.assignee_id AS "assigneeId",
