@@ -1,17 +1,8 @@
 // Tautline: Nuxt 4 with the source folders at the project root (see DEVELOPERS.md).
 export default defineNuxtConfig({
-  compatibilityDate: '2026-11-01',
-  srcDir: '.',
-  devtools: { enabled: false },
-  telemetry: false,
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils', '@nuxt/eslint'],
-  css: [
-    '@fontsource/public-sans/400.css',
-    '@fontsource/public-sans/600.css',
-    '@fontsource/public-sans/700.css',
-    '~/assets/css/main.css',
-  ],
-  tailwindcss: { cssPath: false, configPath: 'tailwind.config.ts', viewer: false },
+  imports: { dirs: ['stores'] },
+  devtools: { enabled: false },
   app: {
     head: {
       htmlAttrs: { lang: 'en' },
@@ -24,12 +15,21 @@ export default defineNuxtConfig({
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
     },
   },
+  css: [
+    '@fontsource/public-sans/400.css',
+    '@fontsource/public-sans/600.css',
+    '@fontsource/public-sans/700.css',
+    '~/assets/css/main.css',
+  ],
   runtimeConfig: {
     session: { maxAge: 60 * 60 * 12, cookie: { sameSite: 'lax', httpOnly: true } },
   },
-  typescript: { strict: true, typeCheck: false },
-  eslint: { config: { stylistic: { quotes: 'single', semi: false, commaDangle: 'always-multiline' } } },
+  srcDir: '.',
+  compatibilityDate: '2026-11-01',
   nitro: { compressPublicAssets: false },
   vite: { build: { sourcemap: false } },
-  imports: { dirs: ['stores'] },
+  typescript: { strict: true, typeCheck: false },
+  telemetry: false,
+  eslint: { config: { stylistic: { quotes: 'single', semi: false, commaDangle: 'always-multiline' } } },
+  tailwindcss: { cssPath: false, configPath: 'tailwind.config.ts', viewer: false },
 })

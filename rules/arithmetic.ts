@@ -7,13 +7,13 @@ import type { Basis, Unit } from './types'
 // check engine can never disagree.
 
 function clauseOf(j: Jurisdiction, id: string) {
-  const c = ruleSets[j].clauses.find((x) => x.id === id)
+  const c = ruleSets[j].clauses.find(x => x.id === id)
   if (c === undefined) throw new Error(`rulebook has no clause ${id} in ${j}`)
   return c
 }
 
 function thresholdOf(j: Jurisdiction, id: string, name: string): number {
-  const t = clauseOf(j, id).thresholds.find((x) => x.name === name)
+  const t = clauseOf(j, id).thresholds.find(x => x.name === name)
   if (t === undefined) throw new Error(`clause ${id} has no threshold ${name}`)
   return t.value
 }
@@ -149,7 +149,7 @@ export interface FixingRange {
  * - US: WCMA/WCSC FAQ on A100.1-2022: factory-fitted on custom loops; no height figure published.
  * - CA: SOR/2019-97 s 6: a device does not make a reachable loop acceptable.
  */
-export function tensionDeviceFixingRange(input: { jurisdiction: Jurisdiction; headHeightMm: number }): FixingRange {
+export function tensionDeviceFixingRange(input: { jurisdiction: Jurisdiction, headHeightMm: number }): FixingRange {
   const { jurisdiction: j, headHeightMm: head } = input
   checkLength('headHeightMm', head)
   switch (j) {
@@ -222,7 +222,7 @@ export interface DevicePosition {
  * `chainLoopLengthMm` is the loop's hanging length: from the top of the headrail to the bottom of the loop
  * hanging free (half the chain's total length). Range and pull test as in {@link tensionDeviceFixingRange}.
  */
-export function tensionDevicePosition(input: { jurisdiction: Jurisdiction; headHeightMm: number; chainLoopLengthMm: number }): DevicePosition {
+export function tensionDevicePosition(input: { jurisdiction: Jurisdiction, headHeightMm: number, chainLoopLengthMm: number }): DevicePosition {
   const { jurisdiction: j, headHeightMm: head, chainLoopLengthMm: loop } = input
   checkLength('headHeightMm', head)
   checkLength('chainLoopLengthMm', loop)

@@ -7,7 +7,7 @@ export interface ClauseDescription {
   id: string
   title: string
   kind: ClauseKind
-  source: { document: string; section: string; url?: string }
+  source: { document: string, section: string, url?: string }
   basis: Basis
   appliesTo: {
     description: string
@@ -16,7 +16,7 @@ export interface ClauseDescription {
     products: ProductType[] | null
     premises: PremisesType[] | null
     madeTo: MadeTo[] | null
-    dates: { fields: DateField[]; from: string | null; until: string | null } | null
+    dates: { fields: DateField[], from: string | null, until: string | null } | null
   }
   thresholds: Threshold[]
   note?: string
@@ -26,7 +26,7 @@ export interface RuleSetDescription {
   jurisdiction: Jurisdiction
   name: string
   version: string
-  scope: { description: string; premises: PremisesType[] }
+  scope: { description: string, premises: PremisesType[] }
   clauses: ClauseDescription[]
 }
 
@@ -48,7 +48,7 @@ export function describeClause(c: Clause): ClauseDescription {
       madeTo: a.madeTo === undefined ? null : [...a.madeTo],
       dates: a.dates === undefined ? null : { fields: [...a.dates.fields], from: a.dates.from ?? null, until: a.dates.until ?? null },
     },
-    thresholds: c.thresholds.map((t) => (t.note === undefined ? { name: t.name, value: t.value, unit: t.unit } : { ...t })),
+    thresholds: c.thresholds.map(t => (t.note === undefined ? { name: t.name, value: t.value, unit: t.unit } : { ...t })),
   }
   if (c.note !== undefined) out.note = c.note
   return out

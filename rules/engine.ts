@@ -110,25 +110,25 @@ function compileClause(clause: Clause, scopeMessage: string): CompiledClause {
     untilIsFirstOfMonth: until !== null && until.slice(8) === '01',
     dateFieldWords: dateFields.join(' and '),
     historyFinding: notApplicable(cx, clause.note ?? 'Withdrawn; kept as history and decides nothing.'),
-    controlFinding: controlTypes.map((c) =>
+    controlFinding: controlTypes.map(c =>
       notApplicable(cx, `Does not apply to a covering worked by ${CONTROL_WORDS[c]}${inner ? ' without inner lift cords' : ''}. Applies to ${a.description}.`),
     ),
-    productFinding: productTypes.map((p) => notApplicable(cx, `Does not apply to a ${p} product. Applies to ${a.description}.`)),
+    productFinding: productTypes.map(p => notApplicable(cx, `Does not apply to a ${p} product. Applies to ${a.description}.`)),
     premisesFinding: notApplicable(cx, `Does not apply on these premises. Applies to ${a.description}.`),
     dateFinding: notApplicable(cx, `Does not apply by date. Applies to ${a.description}.`),
-    madeToFinding: madeToValues.map((m) => notApplicable(cx, `Does not apply to ${m} products. Applies to ${a.description}.`)),
+    madeToFinding: madeToValues.map(m => notApplicable(cx, `Does not apply to ${m} products. Applies to ${a.description}.`)),
     scopeFinding: notApplicable(cx, scopeMessage),
     madeToMessage: `Not recorded whether the product was made to stock or custom; this clause covers ${a.description}.`,
   }
 }
 
 function compileRuleSet(set: RuleSet): CompiledRuleSet {
-  const scopeWords = set.scope.premises.map((p) => p.replace('_', ' ')).join(', ')
+  const scopeWords = set.scope.premises.map(p => p.replace('_', ' ')).join(', ')
   const scopeMessage = `Outside the scope of the ${set.name} rules: ${set.scope.description} Covered premises: ${scopeWords}.`
   return {
     set,
     premisesMask: mask(PREMISES_INDEX, set.scope.premises),
-    clauses: set.clauses.map((clause) => compileClause(clause, scopeMessage)),
+    clauses: set.clauses.map(clause => compileClause(clause, scopeMessage)),
   }
 }
 
@@ -230,7 +230,8 @@ export function checkRecord(record: CoveringRecord, options?: CheckOptions): Che
   let c: CompiledRuleSet
   if (custom === undefined) {
     c = builtInCompiled[j] ?? (builtInCompiled[j] = compiled(builtInRuleSets[record.jurisdiction]))
-  } else {
+  }
+  else {
     c = compiled(custom)
   }
   const set = c.set

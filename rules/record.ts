@@ -90,17 +90,17 @@ const forceN = () =>
 const flag = () => z.boolean({ error: 'must be true, false, or null when not recorded' }).nullable().default(null)
 
 const enumOf = <T extends readonly [string, ...string[]]>(values: T) =>
-  z.enum(values, { error: (issue) => (issue.input === undefined ? 'is required' : `must be one of: ${values.join(', ')}`) })
+  z.enum(values, { error: issue => (issue.input === undefined ? 'is required' : `must be one of: ${values.join(', ')}`) })
 
 const installDate = z
   .string({ error: 'must be a date written YYYY-MM-DD' })
-  .refine((v) => isRealDate(v, true), 'must be a real date written YYYY-MM-DD')
+  .refine(v => isRealDate(v, true), 'must be a real date written YYYY-MM-DD')
   .nullable()
   .default(null)
 
 const manufactureDate = z
   .string({ error: 'must be a date written YYYY-MM or YYYY-MM-DD' })
-  .refine((v) => isRealDate(v, false), 'must be a real date written YYYY-MM or YYYY-MM-DD')
+  .refine(v => isRealDate(v, false), 'must be a real date written YYYY-MM or YYYY-MM-DD')
   .nullable()
   .default(null)
 
@@ -110,7 +110,7 @@ const manufactureDate = z
  */
 export const coveringRecordSchema = z
   .object({
-    ref: z.string({ error: (issue) => (issue.input === undefined ? 'is required' : 'must be the covering reference (text)') }).trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
+    ref: z.string({ error: issue => (issue.input === undefined ? 'is required' : 'must be the covering reference (text)') }).trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
     jurisdiction: enumOf(jurisdictions),
     premises: enumOf(premisesTypes),
     installedOn: installDate,
@@ -195,9 +195,9 @@ export interface RecordError {
   message: string
 }
 
-export type ValidationResult =
-  | { ok: true; records: CoveringRecord[] }
-  | { ok: false; errors: RecordError[] }
+export type ValidationResult
+  = | { ok: true, records: CoveringRecord[] }
+    | { ok: false, errors: RecordError[] }
 
 /** Validate an array of raw records; every error names the record index, its ref and the field. */
 export function validateRecords(input: unknown): ValidationResult {

@@ -12,7 +12,7 @@ function stop(message: string): never {
   process.exit(2)
 }
 
-function parseArgs(argv: string[]): { file: string; today: string | undefined } {
+function parseArgs(argv: string[]): { file: string, today: string | undefined } {
   let file: string | undefined
   let today: string | undefined
   for (let i = 0; i < argv.length; i++) {
@@ -20,12 +20,15 @@ function parseArgs(argv: string[]): { file: string; today: string | undefined } 
     if (arg === '--today') {
       today = argv[++i]
       if (today === undefined || !/^\d{4}-\d{2}-\d{2}$/.test(today)) stop(`--today needs a date written YYYY-MM-DD\n${USAGE}`)
-    } else if (arg === '--help' || arg === '-h') {
+    }
+    else if (arg === '--help' || arg === '-h') {
       process.stdout.write(`${USAGE}\n`)
       process.exit(0)
-    } else if (file === undefined) {
+    }
+    else if (file === undefined) {
       file = arg
-    } else {
+    }
+    else {
       stop(`unexpected argument ${JSON.stringify(arg)}\n${USAGE}`)
     }
   }
@@ -36,7 +39,8 @@ function parseArgs(argv: string[]): { file: string; today: string | undefined } 
 function readInput(file: string): string {
   try {
     return readFileSync(file === '-' ? 0 : file, 'utf8')
-  } catch (e) {
+  }
+  catch (e) {
     return stop(`cannot read ${file === '-' ? 'standard input' : file}: ${(e as Error).message}`)
   }
 }
@@ -46,7 +50,8 @@ const text = readInput(file)
 let input: unknown
 try {
   input = JSON.parse(text)
-} catch (e) {
+}
+catch (e) {
   stop(`${file === '-' ? 'standard input' : file} is not valid JSON: ${(e as Error).message}`)
 }
 const validated = validateRecords(input)

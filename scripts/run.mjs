@@ -160,13 +160,15 @@ async function ensurePostgres(dataDir, port) {
 function pidAlive(pidFile) {
   if (!existsSync(pidFile)) return false
   const pid = Number(readFileSync(pidFile, 'utf8'))
-  try { process.kill(pid, 0); return true } catch { return false }
+  try { process.kill(pid, 0); return true }
+  catch { return false }
 }
 
 async function ensureFake(name, script, args, port, dataDir) {
   const pidFile = join(dataDir, `${name}.pid`)
   if (pidAlive(pidFile)) {
-    try { await waitForPort(port, 2000); return } catch { /* stale: start again */ }
+    try { await waitForPort(port, 2000); return }
+    catch { /* stale: start again */ }
   }
   log(`starting the ${name} fake on 127.0.0.1:${port}`)
   const out = openSync(join(dataDir, `${name}.log`), 'a')
@@ -356,7 +358,11 @@ async function test() {
 async function main() {
   if (command === 'start') return start()
   if (command === 'test') return test()
-  if (command === 'stop') { stopServices('dev'); stopServices('test'); return }
+  if (command === 'stop') {
+    stopServices('dev')
+    stopServices('test')
+    return
+  }
   if (command === 'backup' || command === 'restore') {
     ensurePackages()
     const { env } = await services(process.env.TAUTLINE_PROFILE ?? 'dev')

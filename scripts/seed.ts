@@ -61,7 +61,7 @@ const demoSites: SiteSeed[] = [
       { ref: 'W3', room: 'Bedroom 2', childrensRoom: true, coverings: [c('WAT-4-03', 'pleated', 'cord_loop', m.chainTensioned, { widthMm: 800, dropMm: 1200 })] },
     ] },
   ] },
-  { ref: 'COB', name: "Cobbler's Row", address: "5-11 Cobbler's Row, Dunmere DN4 7QX", jurisdiction: 'EU', premises: 'rental_home', client: 0, units: [
+  { ref: 'COB', name: 'Cobbler\'s Row', address: '5-11 Cobbler\'s Row, Dunmere DN4 7QX', jurisdiction: 'EU', premises: 'rental_home', client: 0, units: [
     { ref: 'F1', name: 'Flat 1', floor: 'Ground', openings: [
       { ref: 'W1', room: 'Lounge', coverings: [c('COB-1-01', 'roller', 'chain_loop', m.euBreakaway, { installedOn: '2025-06-03' })] },
       { ref: 'W2', room: 'Nursery', childrensRoom: true, coverings: [c('COB-1-02', 'roman', 'free_cord', m.romanWide, { installedOn: '2025-06-03' })] },
@@ -142,21 +142,21 @@ async function seedDemo(db: ReturnType<typeof createSequelize>) {
   const hash = await hashPasswordOffline(DEMO_PASSWORD)
   // One transaction: a failure part-way leaves nothing behind, so the next run seeds afresh.
   await db.transaction(async (transaction) => {
-  const t = { transaction }
-  const workspace = await Workspace.create({ name: 'Tallowmere Blinds & Awnings', contactPhone: '+61 2 5550 0142', contactEmail: 'fitters@tallowmere.example', address: '14 Quarry Lane, Kellerton NSW 2999', licenceNumber: 'DEMO-41877' }, t)
-  const clients = [
-    await Client.create({ workspaceId: workspace.id, name: 'Brindlewood Lettings', contactName: 'Priya Marsh', reportEmail: 'reports@brindlewood.example', phone: '+61 2 5550 0177' }, t),
-    await Client.create({ workspaceId: workspace.id, name: 'Oxbury Community Housing', contactName: 'Tom Hallett', reportEmail: 'safety@oxbury.example', phone: '+61 2 5550 0190' }, t),
-  ]
-  const mk = (email: string, name: string, role: User['role'], clientId: number | null = null) =>
-    User.create({ workspaceId: workspace.id, clientId, email, name, role, passwordHash: hash, lastSignInAt: null }, t)
-  await mk('admin@demo.tautline.test', 'Imogen Vale', 'admin')
-  const officer = await mk('officer@demo.tautline.test', 'Dev Okonjo', 'officer')
-  const installer = await mk('installer@demo.tautline.test', 'Sam Ferrow', 'installer')
-  await mk('manager@demo.tautline.test', 'Priya Marsh', 'manager', clients[0]!.id)
-  await mk('manager2@demo.tautline.test', 'Tom Hallett', 'manager', clients[1]!.id)
-  const n = await seedSites(db, transaction, workspace, clients, demoSites, installer.id, installer.id)
-  console.log(`[tautline] demo seeded: 1 workspace, 2 clients, ${demoSites.length} sites, ${n} coverings, 5 accounts (password ${DEMO_PASSWORD}); officer #${officer.id}`)
+    const t = { transaction }
+    const workspace = await Workspace.create({ name: 'Tallowmere Blinds & Awnings', contactPhone: '+61 2 5550 0142', contactEmail: 'fitters@tallowmere.example', address: '14 Quarry Lane, Kellerton NSW 2999', licenceNumber: 'DEMO-41877' }, t)
+    const clients = [
+      await Client.create({ workspaceId: workspace.id, name: 'Brindlewood Lettings', contactName: 'Priya Marsh', reportEmail: 'reports@brindlewood.example', phone: '+61 2 5550 0177' }, t),
+      await Client.create({ workspaceId: workspace.id, name: 'Oxbury Community Housing', contactName: 'Tom Hallett', reportEmail: 'safety@oxbury.example', phone: '+61 2 5550 0190' }, t),
+    ]
+    const mk = (email: string, name: string, role: User['role'], clientId: number | null = null) =>
+      User.create({ workspaceId: workspace.id, clientId, email, name, role, passwordHash: hash, lastSignInAt: null }, t)
+    await mk('admin@demo.tautline.test', 'Imogen Vale', 'admin')
+    const officer = await mk('officer@demo.tautline.test', 'Dev Okonjo', 'officer')
+    const installer = await mk('installer@demo.tautline.test', 'Sam Ferrow', 'installer')
+    await mk('manager@demo.tautline.test', 'Priya Marsh', 'manager', clients[0]!.id)
+    await mk('manager2@demo.tautline.test', 'Tom Hallett', 'manager', clients[1]!.id)
+    const n = await seedSites(db, transaction, workspace, clients, demoSites, installer.id, installer.id)
+    console.log(`[tautline] demo seeded: 1 workspace, 2 clients, ${demoSites.length} sites, ${n} coverings, 5 accounts (password ${DEMO_PASSWORD}); officer #${officer.id}`)
   })
 }
 
@@ -164,19 +164,19 @@ async function seedOther(db: ReturnType<typeof createSequelize>) {
   if (await User.findOne({ where: { email: 'admin@other.tautline.test' } })) return
   const hash = await hashPasswordOffline(DEMO_PASSWORD)
   await db.transaction(async (transaction) => {
-  const t = { transaction }
-  const workspace = await Workspace.create({ name: 'Orchard Lane Shutters', contactPhone: '+44 20 5550 0100', contactEmail: 'office@orchardlane.example', address: '2 Orchard Lane, Dunmere', licenceNumber: null }, t)
-  const client = await Client.create({ workspaceId: workspace.id, name: 'Greyfield Estates', contactName: null, reportEmail: 'estates@greyfield.example', phone: null }, t)
-  const mk = (email: string, name: string, role: User['role'], clientId: number | null = null) =>
-    User.create({ workspaceId: workspace.id, clientId, email, name, role, passwordHash: hash, lastSignInAt: null }, t)
-  const admin = await mk('admin@other.tautline.test', 'Other Admin', 'admin')
-  await mk('officer@other.tautline.test', 'Other Officer', 'officer')
-  await mk('installer@other.tautline.test', 'Other Installer', 'installer')
-  await mk('manager@other.tautline.test', 'Other Manager', 'manager', client.id)
-  await seedSites(db, transaction, workspace, [client, client], [{ ref: 'GRY', name: 'Greyfield House', address: '1 Greyfield Road, Dunmere', jurisdiction: 'EU', premises: 'rental_home', client: 0, units: [
-    { ref: 'G1', name: 'Flat G1', openings: [{ ref: 'W1', room: 'Lounge', coverings: [c('GRY-1-01', 'roller', 'chain_loop', m.chainTensioned)] }] },
-  ] }], admin.id)
-  console.log('[tautline] test fixture: a second workspace seeded')
+    const t = { transaction }
+    const workspace = await Workspace.create({ name: 'Orchard Lane Shutters', contactPhone: '+44 20 5550 0100', contactEmail: 'office@orchardlane.example', address: '2 Orchard Lane, Dunmere', licenceNumber: null }, t)
+    const client = await Client.create({ workspaceId: workspace.id, name: 'Greyfield Estates', contactName: null, reportEmail: 'estates@greyfield.example', phone: null }, t)
+    const mk = (email: string, name: string, role: User['role'], clientId: number | null = null) =>
+      User.create({ workspaceId: workspace.id, clientId, email, name, role, passwordHash: hash, lastSignInAt: null }, t)
+    const admin = await mk('admin@other.tautline.test', 'Other Admin', 'admin')
+    await mk('officer@other.tautline.test', 'Other Officer', 'officer')
+    await mk('installer@other.tautline.test', 'Other Installer', 'installer')
+    await mk('manager@other.tautline.test', 'Other Manager', 'manager', client.id)
+    await seedSites(db, transaction, workspace, [client, client], [{ ref: 'GRY', name: 'Greyfield House', address: '1 Greyfield Road, Dunmere', jurisdiction: 'EU', premises: 'rental_home', client: 0, units: [
+      { ref: 'G1', name: 'Flat G1', openings: [{ ref: 'W1', room: 'Lounge', coverings: [c('GRY-1-01', 'roller', 'chain_loop', m.chainTensioned)] }] },
+    ] }], admin.id)
+    console.log('[tautline] test fixture: a second workspace seeded')
   })
 }
 

@@ -57,16 +57,16 @@ function cordlessForChildren(r: CoveringRecord, cx: ClauseContext): Finding {
       'Prefer a cordless, wand-operated or motorised covering here.',
     )
   }
-  return notApplicable(cx, "Not recorded as a child's room or childcare premises.")
+  return notApplicable(cx, 'Not recorded as a child\'s room or childcare premises.')
 }
 
 export const cordlessForChildrenClause: Clause = {
   id: 'advice.cordless-for-children',
-  title: "Prefer cordless coverings in children's rooms and childcare",
+  title: 'Prefer cordless coverings in children\'s rooms and childcare',
   kind: 'advice',
-  source: { document: 'CPSC and Health Canada consumer advice on window covering cords', section: "choosing cordless products for children's rooms" },
+  source: { document: 'CPSC and Health Canada consumer advice on window covering cords', section: 'choosing cordless products for children\'s rooms' },
   basis: 'published',
-  appliesTo: { description: "coverings with an operating cord in a child's room or in childcare premises", controls: corded },
+  appliesTo: { description: 'coverings with an operating cord in a child\'s room or in childcare premises', controls: corded },
   thresholds: [],
   evaluate: cordlessForChildren,
 }

@@ -7,8 +7,8 @@ import { sharedAdvice } from './advice'
 const SAFETY_STANDARD_2014 = 'Competition and Consumer (Corded Internal Window Coverings) Safety Standard 2014'
 const ACCC_GUIDE = 'ACCC, Corded internal window coverings — installation guide (November 2014)'
 const NSW_SUMMARY = 'NSW Government, Blind and curtain safety (summary of the 2014 safety standard)'
-const SUPPLY_REGULATIONS_2010 =
-  'Trade Practices (Consumer Product Safety Standard — Corded Internal Window Coverings) Regulations 2010'
+const SUPPLY_REGULATIONS_2010
+  = 'Trade Practices (Consumer Product Safety Standard — Corded Internal Window Coverings) Regulations 2010'
 
 // The 2014 standard is not retrospective: it binds installations from 1 January 2015.
 const INSTALLED_FROM_2015: DateWindow = { fields: ['installedOn'], from: '2015-01-01' }
@@ -159,11 +159,11 @@ function installerLabel(r: CoveringRecord, cx: ClauseContext): Finding {
     cx,
     'installerLabel',
     r.installerLabel,
-    "The installer's label with name and contact details is attached.",
-    "No label gives the installer's name and contact details.",
+    'The installer\'s label with name and contact details is attached.',
+    'No label gives the installer\'s name and contact details.',
     'Attach a label with the name and contact details of the person or business that installed the covering.',
-    "Not recorded whether the installer's label is attached.",
-    "Check for a label with the installer's name and contact details and record it.",
+    'Not recorded whether the installer\'s label is attached.',
+    'Check for a label with the installer\'s name and contact details and record it.',
   )
 }
 
@@ -275,9 +275,9 @@ export const auClauses: readonly Clause[] = [
   },
   {
     id: 'au.installer-label',
-    title: "Installer's name and contact on a label",
+    title: 'Installer\'s name and contact on a label',
     kind: 'requirement',
-    source: { document: NSW_SUMMARY, section: "installer's label" },
+    source: { document: NSW_SUMMARY, section: 'installer\'s label' },
     basis: 'published',
     appliesTo: { description: INSTALLATION_SCOPE, controls: corded, dates: INSTALLED_FROM_2015 },
     thresholds: [],

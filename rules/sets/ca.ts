@@ -159,7 +159,7 @@ function smallParts(_r: CoveringRecord, cx: ClauseContext): Finding {
     null,
     null,
     `Reachable small parts must stay attached under ${cx.t.smallPartHoldN} N; only a laboratory can test this.`,
-    "Keep the supplier's declaration of conformity with SOR/2019-97 s 2 on file.",
+    'Keep the supplier\'s declaration of conformity with SOR/2019-97 s 2 on file.',
   )
 }
 
@@ -169,7 +169,7 @@ function lead(_r: CoveringRecord, cx: ClauseContext): Finding {
     null,
     null,
     `Lead in external parts must not exceed ${cx.t.leadMaxMgPerKg} mg/kg; only a laboratory can test this.`,
-    "Keep the supplier's declaration of conformity with SOR/2019-97 s 3 on file.",
+    'Keep the supplier\'s declaration of conformity with SOR/2019-97 s 3 on file.',
   )
 }
 
@@ -257,7 +257,7 @@ export const caClauses: readonly Clause[] = [
     basis: 'published',
     appliesTo: { description: PRODUCT_SCOPE, controls: corded, innerCordProducts: true },
     thresholds: [{ name: 'smallPartHoldN', value: 90, unit: 'N' }],
-    note: "Only a laboratory can test this; Tautline points to the supplier's declaration and never marks a record incomplete for it.",
+    note: 'Only a laboratory can test this; Tautline points to the supplier\'s declaration and never marks a record incomplete for it.',
     evaluate: smallParts,
   },
   {
@@ -268,7 +268,7 @@ export const caClauses: readonly Clause[] = [
     basis: 'published',
     appliesTo: { description: PRODUCT_SCOPE, controls: corded, innerCordProducts: true },
     thresholds: [{ name: 'leadMaxMgPerKg', value: 90, unit: 'mg/kg' }],
-    note: "Only a laboratory can test this; Tautline points to the supplier's declaration and never marks a record incomplete for it.",
+    note: 'Only a laboratory can test this; Tautline points to the supplier\'s declaration and never marks a record incomplete for it.',
     evaluate: lead,
   },
   ...sharedAdvice,

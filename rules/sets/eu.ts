@@ -172,7 +172,7 @@ function breakawayRelease(r: CoveringRecord, cx: ClauseContext): Finding {
     'breakaway',
     true,
     'Sources disagree on the force at which a breakaway connector must part (3 kg, 6 kg, about 7 kg), so Tautline sets no figure.',
-    "Keep the supplier's EN 16434 test report for the connector on file, and check the connector parts and rejoins by hand.",
+    'Keep the supplier\'s EN 16434 test report for the connector on file, and check the connector parts and rejoins by hand.',
   )
 }
 

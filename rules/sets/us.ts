@@ -17,8 +17,8 @@ const EDITION_2022: DateWindow = { fields: ['manufacturedOn'], from: '2024-06-01
 
 function stockOperatingCords(r: CoveringRecord, cx: ClauseContext): Finding {
   const max = cx.t.shortCordMaxMm!
-  const length =
-    r.operatingCordLengthMm ?? (r.control === 'free_cord' ? r.freeCordLengthMm : loopPullOut(r.loopPullOutMm, r.loopPerimeterMm))
+  const length
+    = r.operatingCordLengthMm ?? (r.control === 'free_cord' ? r.freeCordLengthMm : loopPullOut(r.loopPullOutMm, r.loopPerimeterMm))
   if (length === null) {
     return missing(
       cx,

@@ -92,7 +92,7 @@ let zodWall = 0
 let zodCpu = 0
 const chunkRates: number[] = []
 
-function timed(run: () => void): { wall: number; cpu: number } {
+function timed(run: () => void): { wall: number, cpu: number } {
   const cpu0 = process.cpuUsage()
   const t0 = process.hrtime.bigint()
   run()
@@ -165,6 +165,6 @@ console.log('zod validation + checkRecord (separate figure, no goal):')
 console.log(`  wall clock: ${fmt(count)} records in ${zodWall.toFixed(2)} s = ${fmt(zodRate)} records/s; CPU time ${fmt(count / zodCpu)} records per CPU-second`)
 console.log(`  validation costs ${(checkRate / zodRate).toFixed(1)}x the check alone`)
 console.log('machine:')
-console.log(`  ${availableParallelism()} CPUs, load average ${loadavg().map((l) => l.toFixed(2)).join(' / ')} (1/5/15 min); on a busy machine trust the CPU-time figures`)
+console.log(`  ${availableParallelism()} CPUs, load average ${loadavg().map(l => l.toFixed(2)).join(' / ')} (1/5/15 min); on a busy machine trust the CPU-time figures`)
 console.log('memory:')
 console.log(`  peak RSS ${mb(process.resourceUsage().maxRSS * 1024)} MB; peak heap used ${mb(peakHeap)} MB (one chunk of ${fmt(CHUNK)} records held at a time)`)

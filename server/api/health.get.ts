@@ -6,7 +6,7 @@ import { storageReachable } from '../services/storage'
 async function timed(check: () => Promise<unknown>, ms = 2000): Promise<'up' | 'down'> {
   let timer: NodeJS.Timeout | undefined
   try {
-    const ok = await Promise.race([check(), new Promise(resolve => { timer = setTimeout(() => resolve(false), ms) })])
+    const ok = await Promise.race([check(), new Promise((resolve) => { timer = setTimeout(() => resolve(false), ms) })])
     return ok === false ? 'down' : 'up'
   }
   catch {

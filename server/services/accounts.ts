@@ -75,7 +75,6 @@ export async function pruneOldAttempts(db: Sequelize) {
   await db.query(`DELETE FROM sign_in_attempts WHERE attempted_at < now() - interval '1 day'`)
 }
 
-
 /** Opens a server-side session row; the sealed cookie carries only its id and the user's id. */
 export async function openSession(db: Sequelize, userId: number) {
   const id = randomBytes(24).toString('base64url')

@@ -87,8 +87,20 @@ export async function openFixCounts(db: Sequelize, siteId: number) {
   return row ?? { open: 0, overdue: 0 }
 }
 
-export async function listFixes(db: Sequelize, actor: Actor, q: { page: number, pageSize: number, sort: string, q?: string, siteId?: number, coveringId?: number,
-  assigneeId?: number, status: 'open' | 'closed' | 'all', overdue?: 'true' | 'false', priority?: number }) {
+export interface FixQuery {
+  page: number
+  pageSize: number
+  sort: string
+  q?: string
+  siteId?: number
+  coveringId?: number
+  assigneeId?: number
+  status: 'open' | 'closed' | 'all'
+  overdue?: 'true' | 'false'
+  priority?: number
+}
+
+export async function listFixes(db: Sequelize, actor: Actor, q: FixQuery) {
   const scope = siteScopeSql(actor)
   const where = [scope.sql]
   const replacements: Record<string, unknown> = { ...scope.replacements, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }

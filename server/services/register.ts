@@ -106,7 +106,6 @@ export function listCoverings(db: Sequelize, actor: Actor, p: Page & { siteId?: 
     replacements, p)
 }
 
-
 export async function getSite(db: Sequelize, actor: Actor, id: number): Promise<SiteDetail | null> {
   const { items } = await listSites(db, actor, { id, page: 1, pageSize: 1, sort: 'name' })
   return (items[0] as SiteDetail | undefined) ?? null

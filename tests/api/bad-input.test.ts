@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type pg from 'pg'
-import { ApiClient, accounts, baseUrl, database, fixtureIds, signIn } from '../support/api'
+import type { ApiClient } from '../support/api'
+import { accounts, baseUrl, database, fixtureIds, signIn } from '../support/api'
 import { routeFiles } from '../support/routes'
 
 // A generated campaign of malformed requests against every route under server/api. Every answer must
@@ -40,7 +41,8 @@ async function send(client: ApiClient, route: string, variant: string, method: s
   const res = await fetch(baseUrl + path, { method, body, headers: { cookie: client.cookie ?? '', ...headers } })
   const text = await res.text()
   let parsed: { message?: unknown, data?: { fields?: unknown } } = {}
-  try { parsed = JSON.parse(text) } catch { /* non-JSON (PDF, CSV, image) */ }
+  try { parsed = JSON.parse(text) }
+  catch { /* non-JSON (PDF, CSV, image) */ }
   outcomes.push({ route, variant, status: res.status, message: parsed.message, fields: parsed.data?.fields })
 }
 

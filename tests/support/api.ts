@@ -20,7 +20,8 @@ export class ApiClient {
     if (setCookie) this.cookie = setCookie.split(';')[0]!
     const text = await res.text()
     let parsed: unknown = text
-    try { parsed = text ? JSON.parse(text) : null } catch { /* not JSON */ }
+    try { parsed = text ? JSON.parse(text) : null }
+    catch { /* not JSON */ }
     return { status: res.status, body: parsed as T, headers: res.headers }
   }
 

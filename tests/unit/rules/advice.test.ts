@@ -9,7 +9,7 @@ const bases = { AU: auBase, CA: caBase, US: usCustomLoopBase, EU: euBase }
 
 describe('shared advice is in every rule set', () => {
   it.each(Object.keys(bases))('%s carries the five shared advice clauses', (j) => {
-    const ids = ruleSets[j as keyof typeof bases].clauses.map((c) => c.id)
+    const ids = ruleSets[j as keyof typeof bases].clauses.map(c => c.id)
     for (const id of ['advice.furniture-away', 'advice.cordless-for-children', 'advice.ease-tension', 'advice.screw-fixings', 'advice.stop-bead']) {
       expect(ids).toContain(id)
     }
@@ -29,8 +29,8 @@ describe('advice.furniture-away — Health Canada, NSAI, Hackney Trading Standar
   })
 })
 
-describe("advice.cordless-for-children — CPSC and Health Canada (published)", () => {
-  it("advises cordless in a child's room or childcare premises, otherwise not applicable", () => {
+describe('advice.cordless-for-children — CPSC and Health Canada (published)', () => {
+  it('advises cordless in a child\'s room or childcare premises, otherwise not applicable', () => {
     expect(clause('advice.cordless-for-children', auBase, { childrensRoom: true }).verdict).toBe('advice')
     expect(clause('advice.cordless-for-children', auBase, { premises: 'childcare' })).toMatchObject({ verdict: 'advice', field: 'premises' })
     expect(clause('advice.cordless-for-children', auBase).verdict).toBe('not_applicable')

@@ -168,6 +168,6 @@ describe('installerGuide', () => {
 
   it('notes when the chain is too long for the window (EN 13120+A1, secondary)', () => {
     const g = installerGuide({ jurisdiction: 'EU', headHeightMm: 2000, control: 'chain_loop', chainLoopLengthMm: 1500 })
-    expect(g.notes.some((n) => /shorten its hanging length by at least 90 mm/.test(n))).toBe(true)
+    expect(g.notes.some(n => /shorten its hanging length by at least 90 mm/.test(n))).toBe(true)
   })
 })

@@ -14,7 +14,7 @@ describe('AU rule set as a whole', () => {
   it('a wand-operated covering has no cords: not_applicable (SS2014 s 6(1)(a) covers cords and chains)', () => {
     const r = check(auBase, { control: 'wand' })
     expect(r.verdict).toBe('not_applicable')
-    expect(r.findings.filter((f) => f.verdict !== 'not_applicable' && f.verdict !== 'advice')).toEqual([])
+    expect(r.findings.filter(f => f.verdict !== 'not_applicable' && f.verdict !== 'advice')).toEqual([])
   })
 })
 
@@ -174,10 +174,10 @@ describe('labels — NSW Government summary of SS2014; supply Regulations 2010',
   it('a 2012 installation is judged on supply labelling only, with advice to bring it up to date (Regulations 2010; SS2014 not retrospective)', () => {
     const r = check(auBase, { installedOn: '2012-05-01', manufacturedOn: '2012-01', tensionDevice: false, loopPullOutMm: 500, installerLabel: false })
     expect(r.verdict).toBe('compliant')
-    const advice = r.findings.find((f) => f.clause === 'au.older-installation')!
+    const advice = r.findings.find(f => f.clause === 'au.older-installation')!
     expect(advice.verdict).toBe('advice')
     expect(advice.message).toMatch(/strangulation hazard/)
-    expect(check(auBase).findings.find((f) => f.clause === 'au.older-installation')!.verdict).toBe('not_applicable')
+    expect(check(auBase).findings.find(f => f.clause === 'au.older-installation')!.verdict).toBe('not_applicable')
   })
 })
 

@@ -29,7 +29,7 @@ describe('CA rule set as a whole', () => {
   it('a cordless venetian still has reachable inner cords, so the span and loop clauses apply (SOR/2019-97 ss 1, 6, 7)', () => {
     const r = check(caBase, { control: 'cordless', productType: 'venetian', cordSpanMm: null, loopPerimeterMm: null, loopPullOutMm: null })
     expect(r.verdict).toBe('incomplete')
-    expect(r.findings.find((f) => f.clause === 'ca.contact-span')).toMatchObject({ verdict: 'missing', field: 'cordSpanMm' })
+    expect(r.findings.find(f => f.clause === 'ca.contact-span')).toMatchObject({ verdict: 'missing', field: 'cordSpanMm' })
   })
 })
 
@@ -145,12 +145,12 @@ describe('laboratory checks — SOR/2019-97 s 2 (small parts, 90 N) and s 3 (lea
   it('point to the supplier declaration and never make a record incomplete', () => {
     const r = check(caBase)
     for (const id of ['ca.small-parts', 'ca.lead']) {
-      const f = r.findings.find((x) => x.clause === id)!
+      const f = r.findings.find(x => x.clause === id)!
       expect(f.verdict).toBe('advice')
       expect(f.fix).toMatch(/supplier's declaration/)
     }
-    expect(r.findings.find((x) => x.clause === 'ca.small-parts')!.message).toMatch(/90 N/)
-    expect(r.findings.find((x) => x.clause === 'ca.lead')!.message).toMatch(/90 mg\/kg/)
+    expect(r.findings.find(x => x.clause === 'ca.small-parts')!.message).toMatch(/90 N/)
+    expect(r.findings.find(x => x.clause === 'ca.lead')!.message).toMatch(/90 mg\/kg/)
     expect(r.verdict).toBe('compliant')
   })
 })

@@ -22,12 +22,12 @@ describe('overall verdict', () => {
   it('a missing value with no failure makes it incomplete, and the finding names the field (NSW summary of SS2014)', () => {
     const r = check(auBase, { installerLabel: null })
     expect(r.verdict).toBe('incomplete')
-    expect(r.findings.filter((f) => f.verdict === 'missing').map((f) => f.field)).toEqual(['installerLabel'])
+    expect(r.findings.filter(f => f.verdict === 'missing').map(f => f.field)).toEqual(['installerLabel'])
   })
 
   it('one finding per clause, in rule-set order, each naming its source and basis', () => {
     const r = check(auBase)
-    expect(r.findings.map((f) => f.clause)).toEqual(ruleSets.AU.clauses.map((c) => c.id))
+    expect(r.findings.map(f => f.clause)).toEqual(ruleSets.AU.clauses.map(c => c.id))
     for (const f of r.findings) {
       expect(f.source.length).toBeGreaterThan(5)
       expect(['published', 'secondary', 'common_practice', 'memory']).toContain(f.basis)
@@ -36,7 +36,7 @@ describe('overall verdict', () => {
 
   it('every fail and missing finding says what to do', () => {
     const r = check(auBase, { tensionDevice: false, loopPullOutMm: 500, installerLabel: null, swingTag: false })
-    for (const f of r.findings.filter((x) => x.verdict === 'fail' || x.verdict === 'missing')) {
+    for (const f of r.findings.filter(x => x.verdict === 'fail' || x.verdict === 'missing')) {
       expect(f.fix).toMatch(/\w{3,}/)
       expect(f.field).not.toBeNull()
     }
@@ -79,8 +79,8 @@ describe('purity and shape', () => {
   it('checkRecords checks each record in order with one date for the batch', () => {
     const records = [rec(auBase), rec(caBase, { ref: 'CA-2' }), rec(euBase)]
     const results = checkRecords(records, { today: TODAY })
-    expect(results.map((r) => r.ref)).toEqual(['AU-1', 'CA-2', 'EU-1'])
-    expect(results).toEqual(records.map((r) => checkRecord(r, { today: TODAY })))
+    expect(results.map(r => r.ref)).toEqual(['AU-1', 'CA-2', 'EU-1'])
+    expect(results).toEqual(records.map(r => checkRecord(r, { today: TODAY })))
   })
 
   it('uses the current date when `today` is not given and a date is unrecorded', () => {
@@ -147,14 +147,14 @@ describe('the rulebook as data (describeRuleSets)', () => {
 
   it('is plain JSON in the order AU, CA, US, EU', () => {
     expect(JSON.parse(JSON.stringify(described))).toEqual(described)
-    expect(described.map((s) => s.jurisdiction)).toEqual([...jurisdictions])
+    expect(described.map(s => s.jurisdiction)).toEqual([...jurisdictions])
     expect(getRuleSet('EU')).toBe(ruleSets.EU)
   })
 
   it('every set has a version like AU-2026.12.0 and unique clause ids', () => {
     for (const s of described) {
       expect(s.version).toMatch(new RegExp(`^${s.jurisdiction}-\\d{4}\\.\\d{1,2}\\.\\d+$`))
-      const ids = s.clauses.map((c) => c.id)
+      const ids = s.clauses.map(c => c.id)
       expect(new Set(ids).size).toBe(ids.length)
     }
   })
@@ -174,12 +174,12 @@ describe('the rulebook as data (describeRuleSets)', () => {
   })
 
   it('US keeps 16 CFR 1260 as history only', () => {
-    const us = described.find((s) => s.jurisdiction === 'US')!
-    expect(us.clauses.filter((c) => c.kind === 'history').map((c) => c.id)).toEqual(['us.cfr-1260-withdrawn'])
+    const us = described.find(s => s.jurisdiction === 'US')!
+    expect(us.clauses.filter(c => c.kind === 'history').map(c => c.id)).toEqual(['us.cfr-1260-withdrawn'])
   })
 
   it('EU scope leaves out offices and industrial premises', () => {
-    const eu = described.find((s) => s.jurisdiction === 'EU')!
+    const eu = described.find(s => s.jurisdiction === 'EU')!
     expect(eu.scope.premises).not.toContain('office')
     expect(eu.scope.premises).not.toContain('industrial')
   })

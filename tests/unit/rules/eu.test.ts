@@ -14,12 +14,12 @@ describe('EU rule set as a whole', () => {
     for (const premises of ['office', 'industrial'] as const) {
       const r = check(euBase, { premises, lowestCordPointMm: 100, warningLabel: false })
       expect(r.verdict).toBe('not_applicable')
-      expect(r.findings.every((f) => f.verdict === 'not_applicable' && /Outside the scope/.test(f.message))).toBe(true)
+      expect(r.findings.every(f => f.verdict === 'not_applicable' && /Outside the scope/.test(f.message))).toBe(true)
     }
   })
 
   it('homes, rentals, childcare, schools, hotels, healthcare and shops are inside the scope (Hampshire Trading Standards)', () => {
-    for (const premises of premisesTypes.filter((p) => p !== 'office' && p !== 'industrial')) {
+    for (const premises of premisesTypes.filter(p => p !== 'office' && p !== 'industrial')) {
       expect(check(euBase, { premises, lowestCordPointMm: 100 }).verdict).toBe('non_compliant')
     }
   })
@@ -138,8 +138,8 @@ describe('eu.breakaway-release — EN 16434 release force: sources disagree, so 
 describe('EU advice — BBSA (never knot cords, secondary); Hackney TS and NSAI (wands and tassels, published)', () => {
   it('gives advice on corded coverings and never changes the verdict', () => {
     const r = check(euBase)
-    expect(r.findings.find((f) => f.clause === 'advice.no-knots')!.verdict).toBe('advice')
-    expect(r.findings.find((f) => f.clause === 'advice.tassels-wands')!.message).toMatch(/1600 mm/)
+    expect(r.findings.find(f => f.clause === 'advice.no-knots')!.verdict).toBe('advice')
+    expect(r.findings.find(f => f.clause === 'advice.tassels-wands')!.message).toMatch(/1600 mm/)
     expect(r.verdict).toBe('compliant')
   })
 })

@@ -117,7 +117,7 @@ export function check(base: CoveringRecordInput, changes: Partial<CoveringRecord
 }
 
 export function findingOf(result: CheckResult, clause: string): Finding {
-  const f = result.findings.find((x) => x.clause === clause)
+  const f = result.findings.find(x => x.clause === clause)
   if (f === undefined) throw new Error(`no finding for ${clause} in ${result.jurisdiction}`)
   return f
 }

@@ -73,7 +73,7 @@ function expectNoSafer(before: CheckResult, after: CheckResult, what: string): v
 
 describe('monotonic properties over 4000 generated records', () => {
   it('the generator covers every verdict', () => {
-    const seen = new Set(records.map((r) => run(r).verdict))
+    const seen = new Set(records.map(r => run(r).verdict))
     expect([...seen].sort()).toEqual(['compliant', 'incomplete', 'non_compliant', 'not_applicable'])
   })
 

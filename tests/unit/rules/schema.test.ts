@@ -7,7 +7,7 @@ import { auBase } from './fixtures'
 function issuesOf(input: unknown) {
   const r = coveringRecordSchema.safeParse(input)
   if (r.success) return []
-  return r.error.issues.map((i) => ({ field: i.path.join('.'), message: i.message }))
+  return r.error.issues.map(i => ({ field: i.path.join('.'), message: i.message }))
 }
 
 describe('coveringRecordSchema', () => {
@@ -48,11 +48,11 @@ describe('coveringRecordSchema', () => {
     ['freeCordLengthMm', '300'],
   ])('rejects an impossible %s (%s), naming the field', (field, value) => {
     const issues = issuesOf({ ...auBase, [field]: value })
-    expect(issues.map((i) => i.field)).toEqual([field])
+    expect(issues.map(i => i.field)).toEqual([field])
   })
 
   it('rejects a boolean field given as text', () => {
-    expect(issuesOf({ ...auBase, breakaway: 'yes' }).map((i) => i.field)).toEqual(['breakaway'])
+    expect(issuesOf({ ...auBase, breakaway: 'yes' }).map(i => i.field)).toEqual(['breakaway'])
   })
 
   it('accepts 0 mm and decimals', () => {
@@ -61,28 +61,28 @@ describe('coveringRecordSchema', () => {
 
   it('checks dates are real: 29 Feb in a leap year only; manufacture may be a month', () => {
     expect(issuesOf({ ...auBase, installedOn: '2024-02-29' })).toEqual([])
-    expect(issuesOf({ ...auBase, installedOn: '2023-02-29' }).map((i) => i.field)).toEqual(['installedOn'])
-    expect(issuesOf({ ...auBase, installedOn: '2024-06' }).map((i) => i.field)).toEqual(['installedOn'])
-    expect(issuesOf({ ...auBase, manufacturedOn: '2023-13' }).map((i) => i.field)).toEqual(['manufacturedOn'])
+    expect(issuesOf({ ...auBase, installedOn: '2023-02-29' }).map(i => i.field)).toEqual(['installedOn'])
+    expect(issuesOf({ ...auBase, installedOn: '2024-06' }).map(i => i.field)).toEqual(['installedOn'])
+    expect(issuesOf({ ...auBase, manufacturedOn: '2023-13' }).map(i => i.field)).toEqual(['manufacturedOn'])
     expect(issuesOf({ ...auBase, manufacturedOn: '2023-06' })).toEqual([])
-    expect(issuesOf({ ...auBase, manufacturedOn: '2023-06-31' }).map((i) => i.field)).toEqual(['manufacturedOn'])
+    expect(issuesOf({ ...auBase, manufacturedOn: '2023-06-31' }).map(i => i.field)).toEqual(['manufacturedOn'])
   })
 
   it('rejects a lowest cord point above the headrail, and a device above it', () => {
-    expect(issuesOf({ ...auBase, headHeightMm: 1500, lowestCordPointMm: 1600 }).map((i) => i.field)).toEqual(['lowestCordPointMm'])
-    expect(issuesOf({ ...auBase, headHeightMm: 1500, lowestCordPointMm: 900, tensionDeviceHeightMm: 1600 }).map((i) => i.field)).toEqual([
+    expect(issuesOf({ ...auBase, headHeightMm: 1500, lowestCordPointMm: 1600 }).map(i => i.field)).toEqual(['lowestCordPointMm'])
+    expect(issuesOf({ ...auBase, headHeightMm: 1500, lowestCordPointMm: 900, tensionDeviceHeightMm: 1600 }).map(i => i.field)).toEqual([
       'tensionDeviceHeightMm',
     ])
   })
 
   it('rejects an installation before manufacture, by month when only the month is known', () => {
-    expect(issuesOf({ ...auBase, manufacturedOn: '2024-05', installedOn: '2024-04-30' }).map((i) => i.field)).toEqual(['installedOn'])
+    expect(issuesOf({ ...auBase, manufacturedOn: '2024-05', installedOn: '2024-04-30' }).map(i => i.field)).toEqual(['installedOn'])
     expect(issuesOf({ ...auBase, manufacturedOn: '2024-05', installedOn: '2024-05-01' })).toEqual([])
-    expect(issuesOf({ ...auBase, manufacturedOn: '2024-05-20', installedOn: '2024-05-19' }).map((i) => i.field)).toEqual(['installedOn'])
+    expect(issuesOf({ ...auBase, manufacturedOn: '2024-05-20', installedOn: '2024-05-19' }).map(i => i.field)).toEqual(['installedOn'])
   })
 
   it('requires ref, jurisdiction, premises, productType and control', () => {
-    const fields = issuesOf({}).map((i) => i.field)
+    const fields = issuesOf({}).map(i => i.field)
     expect(fields.sort()).toEqual(['control', 'jurisdiction', 'premises', 'productType', 'ref'])
   })
 })
@@ -91,7 +91,7 @@ describe('validateRecords', () => {
   it('returns parsed records when all are valid', () => {
     const r = validateRecords([auBase, { ...auBase, ref: 'AU-2' }])
     expect(r.ok).toBe(true)
-    if (r.ok) expect(r.records.map((x) => x.ref)).toEqual(['AU-1', 'AU-2'])
+    if (r.ok) expect(r.records.map(x => x.ref)).toEqual(['AU-1', 'AU-2'])
   })
 
   it('names the record index, its ref and the field of every error', () => {

@@ -20,7 +20,7 @@ describe('US rule set as a whole', () => {
   it('a cordless venetian still has inner cords: the inner-cord and label clauses apply (16 CFR 1120.3(e)/(f))', () => {
     const r = check(usStockBase, { control: 'cordless', productType: 'venetian', innerCordStops: true })
     expect(r.verdict).toBe('compliant')
-    expect(r.findings.find((f) => f.clause === 'us.inner-cords')!.verdict).toBe('pass')
+    expect(r.findings.find(f => f.clause === 'us.inner-cords')!.verdict).toBe('pass')
     expect(check(usStockBase, { control: 'cordless', productType: 'venetian', innerCordStops: false }).verdict).toBe('non_compliant')
   })
 })

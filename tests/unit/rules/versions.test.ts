@@ -30,13 +30,13 @@ function fingerprint(set: RuleSetDescription): string {
   const data = {
     jurisdiction: set.jurisdiction,
     premises: set.scope.premises,
-    clauses: set.clauses.map((c) => ({
+    clauses: set.clauses.map(c => ({
       id: c.id,
       kind: c.kind,
       basis: c.basis,
       source: c.source,
       appliesTo: { ...c.appliesTo, description: undefined },
-      thresholds: c.thresholds.map((t) => ({ name: t.name, value: t.value, unit: t.unit })),
+      thresholds: c.thresholds.map(t => ({ name: t.name, value: t.value, unit: t.unit })),
     })),
   }
   return createHash('sha256').update(canonical(data)).digest('hex').slice(0, 16)
@@ -48,14 +48,14 @@ describe('rule set versions', () => {
       const now = fingerprint(set)
       expect(
         RELEASED[set.version],
-        `${set.jurisdiction} clause data changed (fingerprint ${now}). Bump the version in rules/sets/${set.jurisdiction.toLowerCase()}.ts ` +
-          `(e.g. ${set.version.replace(/\.(\d+)$/, (_, n: string) => `.${Number(n) + 1}`)}) and add '<new version>': '${now}' to RELEASED in this file.`,
+        `${set.jurisdiction} clause data changed (fingerprint ${now}). Bump the version in rules/sets/${set.jurisdiction.toLowerCase()}.ts `
+        + `(e.g. ${set.version.replace(/\.(\d+)$/, (_, n: string) => `.${Number(n) + 1}`)}) and add '<new version>': '${now}' to RELEASED in this file.`,
       ).toBe(now)
     })
   }
 
   it('no two releases share a version string', () => {
-    const versions = describeRuleSets().map((s) => s.version)
+    const versions = describeRuleSets().map(s => s.version)
     expect(new Set(versions).size).toBe(versions.length)
   })
 })
