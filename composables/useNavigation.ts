@@ -8,14 +8,15 @@ const activity: NavItem = { to: '/activity', label: 'Activity', icon: 'activity'
 const fit: NavItem = { to: '/fit', label: 'Fit', icon: 'ruler' }
 const rulebook: NavItem = { to: '/rulebook', label: 'Rulebook', icon: 'shield' }
 const remedies: NavItem = { to: '/remedies', label: 'Remedies', icon: 'check' }
+const imports: NavItem = { to: '/imports', label: 'Imports', icon: 'plus' }
 
 // Each role sees only the places it can use; the home page is named for what it shows that role.
 const byRole: Record<Role, NavItem[]> = {
   installer: [{ to: '/', label: 'Today', icon: 'today' }, fit, sites, remedies, rulebook],
-  officer: [{ to: '/', label: 'Overview', icon: 'overview' }, fit, sites, remedies, clients, activity, rulebook],
-  manager: [{ to: '/', label: 'Portfolio', icon: 'portfolio' }, sites, remedies, rulebook],
+  officer: [{ to: '/', label: 'Overview', icon: 'overview' }, fit, sites, remedies, clients, imports, activity, rulebook],
+  manager: [{ to: '/', label: 'Portfolio', icon: 'portfolio' }, sites, imports, remedies, rulebook],
   admin: [
-    { to: '/', label: 'Overview', icon: 'overview' }, fit, sites, remedies, clients,
+    { to: '/', label: 'Overview', icon: 'overview' }, fit, sites, remedies, clients, imports,
     { to: '/users', label: 'Users', icon: 'users' }, activity,
     { to: '/mailbox', label: 'Mailbox', icon: 'mail' }, rulebook,
   ],

@@ -6,6 +6,7 @@ import * as foundation from '../migrations/0001-foundation'
 import * as fitting from '../migrations/0002-fitting'
 import * as audits from '../migrations/0003-audits'
 import * as reportFiles from '../migrations/0004-report-files'
+import * as jobsImportsRechecks from '../migrations/0005-jobs-imports-rechecks'
 
 // Plain module (no Nitro auto-imports) so scripts and the server share one way to connect.
 
@@ -36,6 +37,7 @@ const migrations = [
   { name: '0002-fitting', ...fitting },
   { name: '0003-audits', ...audits },
   { name: '0004-report-files', ...reportFiles },
+  { name: '0005-jobs-imports-rechecks', ...jobsImportsRechecks },
 ]
 
 export function migrator(sequelize: Sequelize) {

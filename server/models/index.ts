@@ -120,6 +120,8 @@ export class Inspection extends Model<InferAttributes<Inspection>, InferCreation
   declare correctsId: number | null
   declare clientKey: CreationOptional<string | null>
   declare auditId: CreationOptional<number | null>
+  declare importId: CreationOptional<number | null>
+  declare sourceRow: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -205,6 +207,48 @@ export class Fix extends Model<InferAttributes<Fix>, InferCreationAttributes<Fix
   declare updatedAt: CreationOptional<Date>
 }
 
+export type JobKind = 'import' | 'recheck' | 'export'
+export type JobStatus = 'queued' | 'running' | 'succeeded' | 'failed' | 'cancelled'
+
+/** A background job as pages see it; pg-boss only distributes it (queueJobId). */
+export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job>> {
+  declare id: CreationOptional<number>
+  declare workspaceId: number
+  declare clientId: number | null
+  declare siteId: CreationOptional<number | null>
+  declare kind: JobKind
+  declare status: CreationOptional<JobStatus>
+  declare params: CreationOptional<Record<string, unknown>>
+  declare progressDone: CreationOptional<number>
+  declare progressTotal: CreationOptional<number | null>
+  declare counts: CreationOptional<Record<string, unknown>>
+  declare error: CreationOptional<string | null>
+  declare cancelRequested: CreationOptional<boolean>
+  declare attempts: CreationOptional<number>
+  declare queueJobId: CreationOptional<string | null>
+  declare createdBy: number
+  declare createdAt: CreationOptional<Date>
+  declare startedAt: CreationOptional<Date | null>
+  declare heartbeatAt: CreationOptional<Date | null>
+  declare finishedAt: CreationOptional<Date | null>
+  declare updatedAt: CreationOptional<Date>
+}
+
+/** The file side of an import job: what was uploaded, and how many of its rows were bad. */
+export class ImportFile extends Model<InferAttributes<ImportFile>, InferCreationAttributes<ImportFile>> {
+  declare jobId: number
+  declare mode: 'dry_run' | 'commit'
+  declare skipInvalid: boolean
+  declare dryRunId: number | null
+  declare fileName: string
+  declare objectKey: string
+  declare sizeBytes: number
+  declare sha256: string
+  declare rowCount: number
+  declare badRowCount: CreationOptional<number>
+  declare errorCount: CreationOptional<number>
+}
+
 const id = () => ({ type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true })
 const ref = () => ({ type: DataTypes.TEXT, allowNull: false })
 const text = () => ({ type: DataTypes.TEXT })
@@ -230,7 +274,7 @@ export function initModels(sequelize: Sequelize) {
     lastInspectedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'coverings' })
   Inspection.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), inspectedAt: DataTypes.DATE,
     inspectorId: int(), record: DataTypes.JSONB, rulesVersion: ref(), verdict: ref(), notes: text(), correctsId: int(), clientKey: text(), auditId: int(),
-    createdAt: DataTypes.DATE }, { ...base, tableName: 'inspections', updatedAt: false })
+    importId: int(), sourceRow: int(), createdAt: DataTypes.DATE }, { ...base, tableName: 'inspections', updatedAt: false })
   Finding.init({ id: id(), inspectionId: int(), clause: ref(), verdict: ref(), measured: text(), limitValue: text(), unit: text(),
     field: text(), source: ref(), basis: ref(), message: ref(), fix: text() }, { ...base, tableName: 'findings', timestamps: false })
   Photo.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), objectKey: ref(), thumbKey: text(),
@@ -245,6 +289,14 @@ export function initModels(sequelize: Sequelize) {
   Fix.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), clause: ref(), raisedByInspectionId: int(), message: ref(),
     fix: text(), source: ref(), priority: int(), status: text(), assigneeId: int(), dueOn: DataTypes.DATEONLY,
     closedByInspectionId: int(), closedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'fixes' })
+
+  Job.init({ id: id(), workspaceId: int(), clientId: int(), siteId: int(), kind: ref(), status: text(), params: DataTypes.JSONB,
+    progressDone: int(), progressTotal: int(), counts: DataTypes.JSONB, error: text(), cancelRequested: DataTypes.BOOLEAN, attempts: int(),
+    queueJobId: text(), createdBy: int(), startedAt: DataTypes.DATE, heartbeatAt: DataTypes.DATE, finishedAt: DataTypes.DATE, ...stamps() },
+  { ...base, tableName: 'jobs' })
+  ImportFile.init({ jobId: { type: DataTypes.INTEGER, primaryKey: true }, mode: ref(), skipInvalid: DataTypes.BOOLEAN, dryRunId: int(),
+    fileName: ref(), objectKey: ref(), sizeBytes: int(), sha256: ref(), rowCount: int(), badRowCount: int(), errorCount: int() },
+  { ...base, tableName: 'imports', timestamps: false })
 
   Client.hasMany(Site, { foreignKey: 'clientId' })
   Site.belongsTo(Client, { foreignKey: 'clientId' })

@@ -206,24 +206,17 @@ export function mapHeader(header: string[]): { map: HeaderMap } | { error: strin
 export type ImportRow = Record<string, string | number | boolean | null>
 export interface RowProblem { column: string, message: string }
 
-const cellSchemas = Object.fromEntries(importColumns.map(column => [column.name, z.string().optional().transform((raw, ctx) => {
-  const cell = readCell(column, raw)
-  if ('error' in cell) {
-    ctx.addIssue({ code: 'custom', message: cell.error })
-    return z.NEVER
-  }
-  return cell.value
-})]))
-
 const has = (row: ImportRow, names: readonly string[]) => names.filter(n => row[n] !== null && row[n] !== undefined)
 const openingOnly = ['room', 'childrens_room']
 const coveringOnly = importColumns.filter(c => c.level === 'covering' && c.name !== 'covering_ref').map(c => c.name)
 const measured = ['measured_on', ...measurementColumns.map(c => c.name)]
 const measuredValues = measurementColumns.map(c => c.name)
 
-/** One CSV row: every cell read by its column, then the rules that tie columns together. */
-export const importRowSchema = z.object(cellSchemas).superRefine((parsed, ctx) => {
-  const row = parsed as ImportRow
+/**
+ * The rules that tie a row's columns together, over cells already read by readCell. One schema object per row
+ * rather than one per cell: an import checks up to 50,000 rows, and the rulebook's schema checks the record too.
+ */
+export const importRowSchema = z.custom<ImportRow>(v => typeof v === 'object' && v !== null).superRefine((row, ctx) => {
   const need = (column: string, message: string) => ctx.addIssue({ code: 'custom', path: [column], message })
   if (row.site_ref === null) need('site_ref', 'is empty; every row names its site')
   if (row.unit_ref === null) need('unit_ref', 'is empty; every row names its unit')
@@ -239,23 +232,28 @@ export function hasMeasurements(row: ImportRow) {
   return has(row, measuredValues).length > 0
 }
 
+// Every column present and null (not recorded) until a cell says otherwise; copied, so each row has the same shape.
+const emptyRow: ImportRow = Object.fromEntries(importColumns.map(c => [c.name, null]))
+
 /** Reads a raw CSV record through the header map into a row, or lists its problems by column. */
 export function readRow(map: HeaderMap, record: string[]): { row: ImportRow } | { problems: RowProblem[] } {
-  const input: Record<string, string> = {}
+  const row: ImportRow = { ...emptyRow }
+  const problems: RowProblem[] = []
   for (let i = 0; i < map.length; i++) {
     const column = map[i]
-    if (column && record[i] !== undefined) input[column.name] = record[i]!
+    if (!column) continue
+    const cell = readCell(column, record[i])
+    if ('error' in cell) problems.push({ column: column.name, message: cell.error })
+    else row[column.name] = cell.value
   }
-  const problems: RowProblem[] = []
   if (record.length > map.length && record.slice(map.length).some(c => c.trim() !== '')) {
     problems.push({ column: '', message: `the row has ${record.length} cells but the header names ${map.length} columns` })
   }
-  const parsed = importRowSchema.safeParse(input)
-  if (!parsed.success) {
-    for (const issue of parsed.error.issues) problems.push({ column: String(issue.path[0] ?? ''), message: issue.message })
-  }
-  if (problems.length || !parsed.success) return { problems }
-  return { row: parsed.data as ImportRow }
+  // The rules between columns only make sense once every cell could be read.
+  if (problems.length) return { problems }
+  const checked = importRowSchema.safeParse(row)
+  if (!checked.success) return { problems: checked.error.issues.map(issue => ({ column: String(issue.path[0] ?? ''), message: issue.message })) }
+  return { row }
 }
 
 // ----- the template file -----

@@ -18,7 +18,12 @@ const filters = {
 }
 export const portfolioSummaryQuery = z.object({ siteId: filters.siteId, clientId: filters.clientId })
 export const portfolioUnitQuery = listQuerySchema(['ref', 'site', 'failing', 'due'], '-failing').extend(filters)
-export const portfolioCoveringQuery = listQuerySchema(['need', 'due', 'ref'], 'need').extend({ ...filters, unitId: idOf('unitId').optional() })
+export const portfolioCoveringQuery = listQuerySchema(['need', 'due', 'ref'], 'need').extend({
+  ...filters,
+  unitId: idOf('unitId').optional(),
+  /** Only coverings that need something: non-compliant, overdue, incomplete, never checked or due soon. */
+  attention: z.enum(['true', 'false'], { error: 'attention must be true or false' }).optional(),
+})
 
 export const auditRequestSchema = z.object({
   siteIds: z.array(idOf('siteIds'), { error: 'siteIds must be a list of site ids' }).min(1, 'siteIds: choose at least one site').max(50, 'siteIds: at most 50 sites'),

@@ -6,7 +6,7 @@ import { routeFiles } from '../support/routes'
 
 // Built from the files under server/api: a new route with no entry here, or with no guard, fails.
 type Role = 'admin' | 'officer' | 'installer' | 'manager'
-type Param = 'site' | 'unit' | 'opening' | 'covering' | 'client' | 'user' | 'photo' | 'audit' | 'fix' | 'mailName'
+type Param = 'site' | 'unit' | 'opening' | 'covering' | 'client' | 'user' | 'photo' | 'audit' | 'fix' | 'import' | 'recheck' | 'export' | 'mailName'
 interface Policy {
   public?: true
   roles?: Role[]
@@ -77,12 +77,30 @@ const policies: Record<string, Policy> = {
   'GET /api/clients/:id/audit.csv': { roles: ['admin', 'officer', 'manager'], param: 'client' },
   'GET /api/rules': { roles: everyone },
   'POST /api/checks': { roles: everyone },
+  'GET /api/imports/template.csv': { roles: ['admin', 'officer', 'manager'] },
+  'GET /api/imports': { roles: ['admin', 'officer', 'manager'] },
+  'POST /api/imports': { roles: ['admin', 'officer', 'manager'] },
+  'GET /api/imports/:id': { roles: ['admin', 'officer', 'manager'], param: 'import' },
+  'GET /api/imports/:id/errors': { roles: ['admin', 'officer', 'manager'], param: 'import' },
+  'POST /api/imports/:id/commit': { roles: ['admin', 'officer', 'manager'], param: 'import' },
+  'GET /api/rechecks': { roles: ['admin', 'officer', 'manager'] },
+  'POST /api/rechecks': { roles: ['admin', 'officer', 'manager'] },
+  'GET /api/rechecks/:id': { roles: ['admin', 'officer', 'manager'], param: 'recheck' },
+  'GET /api/rechecks/:id/changes': { roles: ['admin', 'officer', 'manager'], param: 'recheck' },
+  'POST /api/jobs/:id/cancel': { roles: ['admin', 'officer', 'manager'], param: 'recheck' },
+  'POST /api/exports': { roles: ['admin', 'officer', 'manager'] },
+  'GET /api/exports/:id': { roles: ['admin', 'officer', 'manager'], param: 'export' },
+  'GET /api/exports/:id/file': { roles: ['admin', 'officer', 'manager'], param: 'export' },
+  'GET /api/portfolio/summary': { roles: ['admin', 'officer', 'manager'] },
+  'GET /api/portfolio/units': { roles: ['admin', 'officer', 'manager'] },
+  'GET /api/portfolio/coverings': { roles: ['admin', 'officer', 'manager'] },
+  'POST /api/portfolio/audit-requests': { roles: ['manager'] },
 }
 
 const routes = routeFiles()
 let db: pg.Client
 type Ids = Awaited<ReturnType<typeof fixtureIds>>
-type Extra = { photo: number, audit: number, fix: number }
+type Extra = { photo: number, audit: number, fix: number, import: number, recheck: number, export: number }
 let ids: { own: Ids['own'] & Extra, clientTwo: Ids['clientTwo'] & Extra, other: Ids['other'] & Extra }
 
 // An audit and a remedy on each side of every boundary, for the audit and remedy routes.
@@ -104,6 +122,17 @@ async function fixOf(siteId: number) {
   }
   return Number(r.rows[0].id)
 }
+// An import (a dry run that changes nothing), a re-check and an export of each client, for the job routes.
+async function jobsOf(client: ApiClient, clientId: number, siteRef: string, unitRef: string) {
+  const form = new FormData()
+  form.append('clientId', String(clientId))
+  form.append('file', new Blob([`site_ref,unit_ref\n${siteRef},${unitRef}\n`]), 'matrix.csv')
+  const imported = await client.request('POST', '/api/imports', form)
+  const rechecked = await client.post('/api/rechecks', { scope: 'client', id: clientId })
+  const exported = await client.post('/api/exports', { scope: 'client', id: clientId })
+  for (const r of [imported, rechecked, exported]) if (r.status !== 202) throw new Error(`starting a job failed: ${r.status} ${JSON.stringify(r.body)}`)
+  return { import: imported.body.id as number, recheck: rechecked.body.id as number, export: exported.body.id as number }
+}
 const clients: Partial<Record<Role, ApiClient>> = {}
 
 beforeAll(async () => {
@@ -113,9 +142,12 @@ beforeAll(async () => {
   // A photo on each side of every boundary, for the photo routes.
   const otherAdmin = await signIn(accounts.otherAdmin)
   ids = {
-    own: { ...base.own, photo: (await uploadPhoto(clients.officer!, base.own.covering)).id, audit: await auditOf(clients.officer!, base.own.site), fix: await fixOf(base.own.site) },
-    clientTwo: { ...base.clientTwo, photo: (await uploadPhoto(clients.officer!, base.clientTwo.covering)).id, audit: await auditOf(clients.officer!, base.clientTwo.site), fix: await fixOf(base.clientTwo.site) },
-    other: { ...base.other, photo: (await uploadPhoto(otherAdmin, base.other.covering)).id, audit: await auditOf(otherAdmin, base.other.site), fix: await fixOf(base.other.site) },
+    own: { ...base.own, photo: (await uploadPhoto(clients.officer!, base.own.covering)).id, audit: await auditOf(clients.officer!, base.own.site), fix: await fixOf(base.own.site),
+      ...await jobsOf(clients.officer!, base.own.client, 'WAT', 'U1') },
+    clientTwo: { ...base.clientTwo, photo: (await uploadPhoto(clients.officer!, base.clientTwo.covering)).id, audit: await auditOf(clients.officer!, base.clientTwo.site), fix: await fixOf(base.clientTwo.site),
+      ...await jobsOf(clients.officer!, base.clientTwo.client, 'SPR', 'R1') },
+    other: { ...base.other, photo: (await uploadPhoto(otherAdmin, base.other.covering)).id, audit: await auditOf(otherAdmin, base.other.site), fix: await fixOf(base.other.site),
+      ...await jobsOf(otherAdmin, base.other.client, 'GRY', 'G1') },
   }
 })
 afterAll(async () => { await db?.end() })

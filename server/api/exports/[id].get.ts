@@ -1,0 +1,10 @@
+import { idParamsSchema } from '#shared/schemas/common'
+import { jobJson } from '../../services/jobs'
+import { exportFile } from '../../services/exports'
+
+export default defineEventHandler(async (event) => {
+  await requireRole(event, ['admin', 'officer', 'manager'])
+  const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
+  const job = await requireJobAccess(event, id, 'export')
+  return { ...jobJson(job), fileName: exportFile(job).fileName, fileUrl: job.status === 'succeeded' ? `/api/exports/${job.id}/file` : null }
+})

@@ -1,0 +1,8 @@
+import { importListQuery } from '#shared/schemas/imports'
+import { listImports } from '../../services/imports'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, ['admin', 'officer', 'manager'])
+  const query = await getValidatedQuery(event, validateWith(importListQuery))
+  return listImports(useDb(), user, query)
+})

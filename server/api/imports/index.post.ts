@@ -1,0 +1,30 @@
+import { MAX_IMPORT_BYTES, importFormSchema } from '#shared/schemas/imports'
+import { ImportRefusedError, createImport, getImport, importClient } from '../../services/imports'
+import { StorageUnavailableError } from '../../services/storage'
+
+// multipart/form-data: `file` (the CSV), `mode` (dry-run or commit), `skipInvalid`, and for staff `clientId`.
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, ['admin', 'officer', 'manager'])
+  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_IMPORT_BYTES + 64 * 1024) {
+    throw createError({ statusCode: 413, message: 'file: the file is larger than 32 MB; split it and import the parts', data: { fields: { file: 'too large' } } })
+  }
+  const parts = await readMultipartFormData(event).catch(() => null)
+  if (!parts) throw createError({ statusCode: 400, message: 'file: send the CSV as multipart/form-data with a `file` part', data: { fields: { file: 'missing' } } })
+  const form = validateFields(importFormSchema, Object.fromEntries(parts.filter(p => p.filename === undefined && p.name).map(p => [p.name!, p.data.toString('utf8')])))
+  const file = parts.find(p => p.name === 'file' && p.filename !== undefined)
+  if (!file?.data.byteLength) throw createError({ statusCode: 400, message: 'file: no file was attached', data: { fields: { file: 'missing' } } })
+  // Staff choose the client; a manager imports into their own, and naming another is not found.
+  if (form.clientId !== undefined) await requireClientAccess(event, form.clientId)
+  try {
+    const client = await importClient(user, form.clientId)
+    const job = await createImport(useDb(), user, { client, fileName: (file.filename || 'import.csv').slice(0, 200), data: file.data,
+      mode: form.mode === 'commit' ? 'commit' : 'dry_run', skipInvalid: form.skipInvalid })
+    setResponseStatus(event, 202)
+    return getImport(useDb(), job)
+  }
+  catch (err) {
+    if (err instanceof StorageUnavailableError) throw createError({ statusCode: 503, message: 'File storage is unreachable just now; nothing was imported. Try again in a moment.' })
+    if (err instanceof ImportRefusedError) refusal(err)
+    throw err
+  }
+})

@@ -1,0 +1,9 @@
+import { recheckListQuery } from '#shared/schemas/jobs'
+import { listRechecks } from '../../services/rechecks'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, ['admin', 'officer', 'manager'])
+  const query = await getValidatedQuery(event, validateWith(recheckListQuery))
+  if (query.siteId) await requireSiteAccess(event, query.siteId)
+  return listRechecks(useDb(), user, query)
+})

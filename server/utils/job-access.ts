@@ -1,0 +1,31 @@
+import type { H3Event } from 'h3'
+import { ImportFile, Job } from '../models'
+import type { JobKind } from '../models'
+
+const nouns: Record<JobKind, string> = { import: 'Import', recheck: 'Re-check', export: 'Export' }
+
+/**
+ * Tenant guard for a background job: it must be of the kind asked for, in the user's workspace, and
+ * for a property manager about their own client. Anything else answers 404.
+ */
+export async function requireJobAccess(event: H3Event, id: number, kind?: JobKind): Promise<Job> {
+  const user = await requireUser(event)
+  useDb()
+  const job = await Job.findOne({ where: { id, workspaceId: user.workspaceId, ...(kind ? { kind } : {}) } })
+  if (!job || (user.role === 'manager' && job.clientId !== user.clientId)) {
+    throw createError({ statusCode: 404, message: `${kind ? nouns[kind] : 'Job'} not found` })
+  }
+  return job
+}
+
+export async function requireImportAccess(event: H3Event, id: number): Promise<{ job: Job, file: ImportFile }> {
+  const job = await requireJobAccess(event, id, 'import')
+  return { job, file: (await ImportFile.findByPk(job.id))! }
+}
+
+/** A service refusal (field, message, status) as the API's error shape. */
+export function refusal(err: unknown): never {
+  const e = err as { field?: string, statusCode?: number, message?: string }
+  if (e && e.field && e.statusCode) throw createError({ statusCode: e.statusCode, message: e.message, data: { fields: { [e.field]: e.message } } })
+  throw err
+}
