@@ -1,7 +1,8 @@
 import { defineConfig } from 'vitest/config'
 
-// Three projects: pure unit tests, API tests against the server that `npm test` starts,
-// and browser tests driving Debian's chromium against the same built server.
+// Four projects, in three groups that run one after the other (sequence.groupOrder): pure unit tests; then API
+// tests against the server that `npm test` starts and browser tests driving Debian's chromium against it, one file
+// at a time; then the fault tests, which stop PostgreSQL and the mail fake under that server and so run alone, last.
 export default defineConfig({
   test: {
     projects: [
@@ -20,6 +21,7 @@ export default defineConfig({
           testTimeout: 30_000,
           hookTimeout: 60_000,
           fileParallelism: false,
+          sequence: { groupOrder: 1 },
         },
       },
       {
@@ -30,6 +32,18 @@ export default defineConfig({
           testTimeout: 90_000,
           hookTimeout: 90_000,
           fileParallelism: false,
+          sequence: { groupOrder: 1 },
+        },
+      },
+      {
+        test: {
+          name: 'faults',
+          include: ['tests/faults/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 90_000,
+          hookTimeout: 90_000,
+          fileParallelism: false,
+          sequence: { groupOrder: 2 },
         },
       },
     ],

@@ -1,7 +1,7 @@
 import { retryQueuedReportMails } from '../services/report-dispatch'
 
-/** How often each server process looks for queued report e-mails that are due again. */
-const INTERVAL_MS = 30_000
+/** How often each server process looks for queued report e-mails that are due again (REPORT_RETRY_EVERY_MS). */
+const INTERVAL_MS = Number(process.env.REPORT_RETRY_EVERY_MS) > 0 ? Number(process.env.REPORT_RETRY_EVERY_MS) : 30_000
 
 // Every process runs the worker; FOR UPDATE SKIP LOCKED in the claim keeps two from sending one report.
 export default defineNitroPlugin((nitro) => {

@@ -13,8 +13,8 @@ import { StorageUnavailableError, deleteObject, getObjectBytes, putObject } from
 
 /** Attempts in all, the first included, before a dispatch is given up as failed. */
 export const MAX_ATTEMPTS = 8
-/** Wait after the first failed attempt; each later failure doubles it. */
-export const RETRY_BASE_MS = 30_000
+/** Wait after the first failed attempt; each later failure doubles it (REPORT_RETRY_BASE_MS, 30 s by default). */
+export const RETRY_BASE_MS = Number(process.env.REPORT_RETRY_BASE_MS) > 0 ? Number(process.env.REPORT_RETRY_BASE_MS) : 30_000
 /** How long a claimed row stays hidden from other workers while one of them sends it. */
 const LEASE_MS = 10 * 60_000
 

@@ -7,7 +7,7 @@ export const DEMO_PASSWORD = 'tautline-demo'
 export interface Reply<T = any> { status: number, body: T, headers: Headers }
 
 export class ApiClient {
-  constructor(public cookie: string | null = null) {}
+  constructor(public cookie: string | null = null, public base = baseUrl) {}
 
   async request<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Reply<T>> {
     const init: RequestInit = { method, headers: { accept: 'application/json', ...headers }, redirect: 'manual' }
@@ -15,7 +15,7 @@ export class ApiClient {
     if (body instanceof FormData) init.body = body
     else if (typeof body === 'string') { init.body = body; (init.headers as Record<string, string>)['content-type'] ??= 'application/json' }
     else if (body !== undefined) { init.body = JSON.stringify(body); (init.headers as Record<string, string>)['content-type'] = 'application/json' }
-    const res = await fetch(baseUrl + path, init)
+    const res = await fetch(this.base + path, init)
     const setCookie = res.headers.getSetCookie().find(c => c.startsWith('nuxt-session='))
     if (setCookie) this.cookie = setCookie.split(';')[0]!
     const text = await res.text()
@@ -30,8 +30,8 @@ export class ApiClient {
   patch<T = any>(path: string, body?: unknown) { return this.request<T>('PATCH', path, body ?? {}) }
 }
 
-export async function signIn(email: string, password = DEMO_PASSWORD): Promise<ApiClient> {
-  const client = new ApiClient()
+export async function signIn(email: string, password = DEMO_PASSWORD, base = baseUrl): Promise<ApiClient> {
+  const client = new ApiClient(null, base)
   const r = await client.post('/api/auth/login', { email, password })
   if (r.status !== 200) throw new Error(`sign-in as ${email} failed: ${r.status} ${JSON.stringify(r.body)}`)
   return client

@@ -16,8 +16,8 @@ export async function launch(): Promise<Browser> {
 export const phone = { viewport: { width: 390, height: 844 }, deviceScaleFactor: 2, isMobile: true, hasTouch: true }
 export const laptop = { viewport: { width: 1280, height: 800 } }
 
-export async function newPage(browser: Browser, device: typeof phone | typeof laptop = laptop): Promise<{ context: BrowserContext, page: Page }> {
-  const context = await browser.newContext({ ...device, baseURL: baseUrl })
+export async function newPage(browser: Browser, device: typeof phone | typeof laptop = laptop, base = baseUrl): Promise<{ context: BrowserContext, page: Page }> {
+  const context = await browser.newContext({ ...device, baseURL: base })
   const page = await context.newPage()
   return { context, page }
 }
