@@ -1,3 +1,4 @@
+import { isUtf8 } from 'node:buffer'
 import { createHash, randomUUID } from 'node:crypto'
 import { Readable } from 'node:stream'
 import { parse } from 'csv-parse'
@@ -36,21 +37,68 @@ function csvProblem(err: unknown) {
 
 /** Records in a CSV file: line breaks outside quotes, not counting blank lines (one pass over the bytes, no parsing). */
 export function countCsvRecords(data: Uint8Array) {
-  let records = 0, inQuotes = false, lineHasText = false
+  return scanCsv(data).records
+}
+
+/**
+ * One pass over the bytes, no parsing: the records (line breaks outside quotes, blank lines not counted), and the
+ * line where a quoted cell opened that is never closed, if one is.
+ */
+export function scanCsv(data: Uint8Array): { records: number, unclosedQuoteLine?: number } {
+  let records = 0, inQuotes = false, lineHasText = false, line = 1, quoteLine = 0
   for (let i = 0; i < data.length; i++) {
     const b = data[i]!
-    if (b === 0x22) { inQuotes = !inQuotes; lineHasText = true }
-    else if (b === 0x0a && !inQuotes) { if (lineHasText) records++; lineHasText = false }
+    if (b === 0x22) {
+      inQuotes = !inQuotes
+      lineHasText = true
+      if (inQuotes) quoteLine = line
+    }
+    else if (b === 0x0a) {
+      line++
+      if (!inQuotes) { if (lineHasText) records++; lineHasText = false }
+    }
     else if (b !== 0x0d) lineHasText = true
   }
-  return records + (lineHasText ? 1 : 0)
+  return { records: records + (lineHasText ? 1 : 0), unclosedQuoteLine: inQuotes ? quoteLine : undefined }
+}
+
+/** The 1-based line of a byte offset. */
+function lineAt(data: Uint8Array, offset: number) {
+  let line = 1
+  for (let i = 0; i < offset; i++) if (data[i] === 0x0a) line++
+  return line
+}
+
+/** Text problems that would otherwise garble cells silently: UTF-16, bytes that are not UTF-8, binary data. */
+function textProblem(data: Uint8Array): string | undefined {
+  if ((data[0] === 0xFF && data[1] === 0xFE) || (data[0] === 0xFE && data[1] === 0xFF)) {
+    return 'it is saved as UTF-16 text; save it as "CSV UTF-8" and import again'
+  }
+  const nul = data.indexOf(0)
+  if (nul >= 0) return `it holds binary data (a NUL byte on line ${lineAt(data, nul)}), not CSV text`
+  if (!isUtf8(data)) {
+    // Find the first line that is not UTF-8, so the person knows where to look.
+    let start = 0
+    for (;;) {
+      const end = data.indexOf(0x0a, start)
+      const stop = end < 0 ? data.length : end
+      if (!isUtf8(data.subarray(start, stop))) break
+      if (end < 0) break
+      start = end + 1
+    }
+    return `line ${lineAt(data, start)} is not UTF-8 text (perhaps the file was saved as Latin-1 or Windows-1252); save it as "CSV UTF-8" and import again`
+  }
+  return undefined
 }
 
 /** Checks the header and counts the rows for the progress bar; the job reads every row properly later. */
 export async function surveyCsv(data: Uint8Array): Promise<{ rows: number }> {
+  const problem = textProblem(data)
+  if (problem) throw new ImportRefusedError('file', `file: ${problem}`)
+  if (!data.some(b => b !== 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0xEF && b !== 0xBB && b !== 0xBF)) throw new ImportRefusedError('file', 'file: it is empty; start from the template')
   let header: string[] | undefined
   try {
-    const parser = Readable.from([data.subarray(0, 64 * 1024)]).pipe(parse({ bom: true, to_line: 1, relax_column_count: true, relax_quotes: true }))
+    const parser = Readable.from([data.subarray(0, 64 * 1024)]).pipe(parse({ bom: true, to: 1, skip_empty_lines: true, relax_column_count: true, relax_quotes: true }))
     for await (const record of parser as AsyncIterable<string[]>) header ??= record
   }
   catch (err) {
@@ -59,7 +107,9 @@ export async function surveyCsv(data: Uint8Array): Promise<{ rows: number }> {
   if (!header) throw new ImportRefusedError('file', 'file: it is empty; start from the template')
   const mapped = mapHeader(header)
   if ('error' in mapped) throw new ImportRefusedError('file', `file: ${mapped.error}`)
-  const rows = countCsvRecords(data) - 1
+  const scan = scanCsv(data)
+  if (scan.unclosedQuoteLine) throw new ImportRefusedError('file', `file: a quoted cell opened on line ${scan.unclosedQuoteLine} is never closed`)
+  const rows = scan.records - 1
   if (rows < 1) throw new ImportRefusedError('file', 'file: there are no rows below the header; fill in the template and try again')
   if (rows > MAX_IMPORT_ROWS) throw new ImportRefusedError('file', `file: it has ${rows.toLocaleString('en-GB')} rows; import at most ${MAX_IMPORT_ROWS.toLocaleString('en-GB')} at a time`, 413)
   return { rows }

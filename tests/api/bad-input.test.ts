@@ -109,3 +109,42 @@ async function campaign(key: string) {
   await send(client, key, 'xml', method, path, '<site><name>x</name></site>', { 'content-type': 'application/xml' })
   await send(client, key, 'broken multipart', method, path, '--xyz\r\nContent-Disposition: form-data; name="file"\r\n\r\nnot closed', { 'content-type': 'multipart/form-data; boundary=xyz' })
 }
+
+describe('malformed CSV files', () => {
+  // A file in another encoding, binary data or broken quoting is refused when it is sent, naming `file` and the
+  // line, before any job or import row exists; nothing half-read reaches the register.
+  const header = 'site_ref,site_name,address,jurisdiction,premises,unit_ref,room,opening_ref,covering_ref,control,head_height_mm'
+  const row = 'WAT,Wattle Court,1 Example Way,AU,rental_home,U-9,Bedroom,W1,C-9,chain_loop,2100mm'
+  const utf16 = Buffer.concat([Buffer.from([0xFF, 0xFE]), Buffer.from(`${header}\n${row}\n`, 'utf16le')])
+  const latin1 = Buffer.concat([Buffer.from(`${header}\n`), Buffer.from(`${row.replace('Bedroom', 'Chambre d')}`), Buffer.from([0xE9]), Buffer.from('\n')])
+  const files: Array<[string, Uint8Array, RegExp, number?]> = [
+    ['UTF-16', utf16, /^file: it is saved as UTF-16 text/],
+    ['Latin-1', latin1, /^file: line 2 is not UTF-8 text/],
+    ['binary', Buffer.from([0x89, 0x50, 0x4E, 0x47, 0x0D, 0x0A, 0x1A, 0x0A, 0, 0, 0, 0x0D]), /^file: it holds binary data \(a NUL byte on line 3\)/],
+    ['NUL in a row', Buffer.from(`${header}\n${row}\nWAT,\u0000\n`), /^file: it holds binary data \(a NUL byte on line 3\)/],
+    ['unclosed quote', Buffer.from(`${header}\n${row}\nWAT,"Wattle Court,1 Example Way\nWAT,x\n`), /^file: a quoted cell opened on line 3 is never closed/],
+    ['empty', Buffer.from(''), /^file: no file was attached/],
+    ['blank lines only', Buffer.from('\n\n\r\n'), /^file: it is empty/],
+    ['header only', Buffer.from(`${header}\n`), /^file: there are no rows below the header/],
+    ['unknown column', Buffer.from(`${header},shoe_size\n${row},42\n`), /^file: .*shoe_size/],
+    ['too many rows', Buffer.from(`${header}\n${`${row}\n`.repeat(50_001)}`), /^file: it has 50,001 rows; import at most/, 413],
+  ]
+
+  it('are refused on arrival, naming the file and the line, and start no import', async () => {
+    const db = await database()
+    const count = async () => (await db.query(`SELECT (SELECT count(*) FROM jobs)::int AS jobs, (SELECT count(*) FROM imports)::int AS imports`)).rows[0]
+    const before = await count()
+    const manager = await signIn(accounts.manager)
+    for (const [what, data, message, status] of files) {
+      const form = new FormData()
+      form.append('mode', 'dry-run')
+      form.append('file', new Blob([new Uint8Array(data)]), `${what}.csv`)
+      const r = await manager.request('POST', '/api/imports', form)
+      expect(r.status, `${what}: ${JSON.stringify(r.body)}`).toBe(status ?? 400)
+      expect(r.body.message, what).toMatch(message)
+      expect(r.body.data?.fields?.file, what).toBeTruthy()
+    }
+    expect(await count()).toEqual(before)
+    await db.end()
+  })
+})
