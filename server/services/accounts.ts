@@ -87,13 +87,23 @@ export async function revokeSessions(db: Sequelize, where: { sessionId?: string,
   if (where.userId) await db.query('UPDATE user_sessions SET revoked_at = now() WHERE user_id = :id AND revoked_at IS NULL', { replacements: { id: where.userId } })
 }
 
-/** The active user behind a live session, or null. */
+/**
+ * The active user behind a live session, or null. Checked against the database on every request, so a sign-out,
+ * a password reset or a deactivation ends the session at once; `last_seen_at` is written at most once a minute,
+ * so that reading a page is not also a write to wait for.
+ */
 export async function sessionUser(db: Sequelize, sessionId: string, userId: number) {
   const [row] = await db.query<{ id: number, email: string, name: string, role: 'admin' | 'officer' | 'installer' | 'manager', workspaceId: number, clientId: number | null }>(
-    `UPDATE user_sessions s SET last_seen_at = now() FROM users u
-     WHERE s.id = :sessionId AND s.user_id = :userId AND u.id = s.user_id AND s.revoked_at IS NULL AND u.active
-       AND s.created_at > now() - interval '12 hours'
-     RETURNING u.id, u.email, u.name, u.role, u.workspace_id AS "workspaceId", u.client_id AS "clientId"`,
+    `WITH live AS (
+       SELECT s.id AS session_id, s.last_seen_at, u.id, u.email, u.name, u.role, u.workspace_id, u.client_id
+       FROM user_sessions s JOIN users u ON u.id = s.user_id
+       WHERE s.id = :sessionId AND s.user_id = :userId AND s.revoked_at IS NULL AND u.active
+         AND s.created_at > now() - interval '12 hours'
+     ), seen AS (
+       UPDATE user_sessions SET last_seen_at = now()
+       WHERE id = (SELECT session_id FROM live WHERE last_seen_at < now() - interval '1 minute')
+     )
+     SELECT id, email, name, role, workspace_id AS "workspaceId", client_id AS "clientId" FROM live`,
     { type: QueryTypes.SELECT, replacements: { sessionId, userId } })
   return row ?? null
 }

@@ -64,6 +64,9 @@ export async function recordInspection(db: Sequelize, args: {
   const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements, opening))
   const result = checkRecord(record, { today: args.inspectedAt.toISOString().slice(0, 10) })
   const work = async (transaction: Transaction) => {
+    // One sign-off at a time per covering: two at once would both see no open remedy for a clause and both
+    // raise one, or both decide which inspection is the latest from what they read before either committed.
+    const current = await Covering.findByPk(args.covering.id, { attributes: ['id', 'lastInspectedAt'], transaction, lock: transaction.LOCK.UPDATE })
     const inspection = await Inspection.create({
       workspaceId: args.workspaceId, siteId: args.site.id, coveringId: args.covering.id, kind: args.kind,
       inspectedAt: args.inspectedAt, inspectorId: args.inspectorId, record: record as unknown as Record<string, unknown>,
@@ -85,7 +88,8 @@ export async function recordInspection(db: Sequelize, args: {
     }
     await applyInspectionToRemedies(db, { inspection, result, site: args.site, childrensRoom: record.childrensRoom === true,
       photoCount: photoIds.length, actorId: args.inspectorId }, transaction)
-    const newer = args.covering.lastInspectedAt && args.covering.lastInspectedAt > args.inspectedAt
+    const latest = current?.lastInspectedAt ?? null
+    const newer = latest && latest > args.inspectedAt
     if (!newer) {
       await Covering.update({ lastInspectionId: inspection.id, lastVerdict: result.verdict, lastInspectedAt: args.inspectedAt },
         { where: { id: args.covering.id }, transaction })

@@ -152,3 +152,27 @@ describe('sign-off', () => {
     expect(r.body.data.fields.photoIds).toBeTruthy()
   })
 })
+
+describe('sign-offs of one covering at the same moment', () => {
+  it('are all saved, raise one remedy per failing clause, and the latest visit stays the latest', async () => {
+    const admin = await signIn(accounts.admin)
+    const tag = Date.now().toString(36).toUpperCase()
+    const unit = await admin.post('/api/units', { siteId: ids.own.site, ref: `RACE-${tag}` })
+    const opening = await admin.post('/api/openings', { unitId: unit.body.id, ref: 'W1', room: 'Bedroom', recessWidthMm: 900, recessHeightMm: 1200 })
+    const covering = await admin.post('/api/coverings', { openingId: opening.body.id, ref: `RACE-${tag}-1`, productType: 'roller', control: 'chain_loop', widthMm: 880, dropMm: 1200 })
+    expect(covering.status, JSON.stringify(covering.body)).toBe(201)
+    // A bead-chain loop hanging free to 300 mm from the floor: it fails, so each sign-off would raise remedies.
+    const hanging = { headHeightMm: 1500, lowestCordPointMm: 300, loopPullOutMm: 600, loopPerimeterMm: 1800, tensionDevice: false, innerCordStops: true, warningLabel: true, installerLabel: true }
+    const times = [1, 2, 3, 4, 5, 6].map(m => new Date(Date.now() - m * 60_000).toISOString())
+    const answers = await Promise.all(times.map((inspectedAt, i) => installer.post(`/api/coverings/${covering.body.id}/inspections`,
+      { kind: 'fitting', measurements: hanging, inspectedAt, clientKey: `race-${tag}-${i}` })))
+    expect(answers.map(a => a.status), JSON.stringify(answers.map(a => a.body.message))).toEqual([201, 201, 201, 201, 201, 201])
+    expect(answers[0]!.body.verdict).toBe('non_compliant')
+    const open = await db.query(`SELECT clause, count(*)::int AS n FROM fixes WHERE covering_id = $1 AND status = 'open' GROUP BY clause`, [covering.body.id])
+    expect(open.rows.length).toBeGreaterThan(0)
+    expect(open.rows.filter(r => r.n !== 1)).toEqual([])
+    // The visit a minute ago is the latest, whichever request committed last.
+    const latest = await db.query('SELECT last_inspection_id FROM coverings WHERE id = $1', [covering.body.id])
+    expect(Number(latest.rows[0].last_inspection_id)).toBe(answers[0]!.body.id)
+  })
+})
