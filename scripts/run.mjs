@@ -9,6 +9,7 @@ import { connect } from 'node:net'
 import { tmpdir } from 'node:os'
 import { dirname, join, resolve } from 'node:path'
 import { fileURLToPath } from 'node:url'
+import { sourceHash } from './source-hash.mjs'
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..')
 const command = process.argv[2] ?? 'start'
@@ -238,26 +239,9 @@ function stopServices(profileName, { quietly = false } = {}) {
 }
 
 // Rebuild only when a source file changed since the last build.
-function sourceHash() {
-  const h = createHash('sha256')
-  const dirs = ['pages', 'components', 'layouts', 'middleware', 'stores', 'composables', 'server', 'shared', 'rules', 'assets', 'public', 'plugins', 'utils']
-  const files = ['app.vue', 'error.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json', 'tsconfig.json']
-  const walk = (d) => {
-    if (!existsSync(d)) return
-    for (const e of readdirSync(d, { withFileTypes: true }).sort((a, b) => a.name.localeCompare(b.name))) {
-      const p = join(d, e.name)
-      if (e.isDirectory()) walk(p)
-      else { h.update(p); h.update(readFileSync(p)) }
-    }
-  }
-  for (const d of dirs) walk(join(root, d))
-  for (const f of files) if (existsSync(join(root, f))) { h.update(f); h.update(readFileSync(join(root, f))) }
-  return h.digest('hex')
-}
-
 function build(env) {
   const stamp = join(root, '.output', '.tautline-source-hash')
-  const want = sourceHash()
+  const want = sourceHash(root)
   if (existsSync(stamp) && readFileSync(stamp, 'utf8') === want && existsSync(join(root, '.output', 'server', 'index.mjs'))) {
     log('build is up to date')
     return
