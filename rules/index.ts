@@ -4,15 +4,15 @@ export {
   controlTypes,
   corded,
   deviceFixings,
-  formatRecordError,
   innerCorded,
   jurisdictions,
   looped,
   madeToValues,
   premisesTypes,
   productTypes,
-  validateRecords,
 } from './record'
+export { fieldKinds, formatRecordError, parseCoveringRecord, validateRecords } from './validate'
+export type { RecordError, RecordParseResult, ValidationResult } from './validate'
 export type {
   ControlType,
   CoveringRecord,
@@ -22,9 +22,7 @@ export type {
   MadeTo,
   PremisesType,
   ProductType,
-  RecordError,
   RecordField,
-  ValidationResult,
 } from './record'
 export type {
   AppliesTo,

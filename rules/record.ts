@@ -123,11 +123,24 @@ export const coveringRecordSchema = z
     productHeightMm: lengthMm(),
     /** Lowest point any cord or chain reaches above the floor, with devices as fitted. */
     lowestCordPointMm: lengthMm(),
-    /** Length of the largest loop that can be pulled out, laid flat, with devices as fitted. */
+    /**
+     * Pull-out of the operating cord or chain: what a child can draw out. With the tension device, cord guide and
+     * cleat as fitted, take the cord or chain at its lowest reachable point, pull it out by hand as far as it comes
+     * and lay the loop flat; record its length from the fold to where its two sides meet (or reach the device or
+     * headrail). A chain held taut by a working tension device gives only a few mm (the ease), whatever its length.
+     * AU s 6(1)(a) (220 mm) and the tension-device clauses read this figure.
+     */
     loopPullOutMm: lengthMm(),
+    /**
+     * Perimeter of the largest loop that exists or can be formed from any reachable cord: the whole length of cord
+     * round the loop, as if cut and laid straight (pulled at 35 N for CA s 7). A continuous chain's perimeter is its
+     * full length, tensioned or not; it bounds the pull-out from above (a loop cannot be pulled out further than
+     * half its perimeter) but is not the pull-out. CA s 7 (44 cm) reads this figure.
+     */
     loopPerimeterMm: lengthMm(2 * MAX_LENGTH_MM),
     /** Longest reachable free-end cord. */
     freeCordLengthMm: lengthMm(),
+    /** Operating cord length; where a free cord is also recorded, the longer of the two decides. */
     operatingCordLengthMm: lengthMm(),
     rearCordSpacingMm: lengthMm(),
     innerCordStops: flag(),
@@ -159,6 +172,34 @@ export const coveringRecordSchema = z
     innerCordsReachable: flag(),
     /** Added: the buyer asked for an operating cord longer than the US custom default. */
     longerCordRequested: flag(),
+    /**
+     * Added: pull-out of the inner (lift) or rear cords: with the covering fully lowered and the inner cord stops
+     * as fitted, pull an inner or rear cord out between the slats, folds or rings as far as it comes, lay the loop
+     * flat and record its length (0 when nothing comes out). Judged like any loop (AU s 6(1)(a); CA s 7 as twice it).
+     */
+    innerLoopPullOutMm: lengthMm(),
+    /** Added: an inner or rear cord can be pulled into a loop a child's head could pass through (a hazardous loop), stops as fitted. */
+    innerCordLoop: flag(),
+    /** Added: the operating cord or loop cannot be reached (rigid shroud or built-in restraint; US A100.1-2018 §4.3.1.3). */
+    operatingCordsInaccessible: flag(),
+    /** Added: with the tension device fixed, the loop or cord is held taut: no loop can be drawn out past the device beyond the ~10 mm ease. */
+    tensionDeviceHoldsTaut: flag(),
+    /** Added: the tension device came attached to the cord or chain from the maker (US A100.1-2022). */
+    tensionDeviceFactoryFitted: flag(),
+    /** Added: the covering can still be raised or lowered with the tension device not installed under tension (true is a fault, US A100.1-2022). */
+    operatesWithoutTensionDevice: flag(),
+    /** Added: a free-hanging tilt cord is fitted (slats are tilted by a hanging cord, not a wand). */
+    freeTiltCord: flag(),
+    /** Added: two or more operating cords end in one connector or tassel. */
+    multiCordConnector: flag(),
+    /** Added: installed as the instructions on the product's retail packaging say (AU 2014 standard). */
+    installedPerInstructions: flag(),
+    /** Added: installed in trade or commerce (by a business, as a paid service); false for the occupier's own fitting. */
+    installedByBusiness: flag(),
+    /** Added: the product carries the warning that it is for premises where young children are not present (EU offices, industry). */
+    childFreePremisesWarning: flag(),
+    /** Added: the product's information and instructions are in English and French (CA). */
+    bilingualInformation: flag(),
   })
   .superRefine((r, ctx) => {
     // Cords hang from the headrail, so nothing on them can sit higher than its top.
@@ -185,44 +226,4 @@ export type CoveringRecord = z.output<typeof coveringRecordSchema>
 export type CoveringRecordInput = z.input<typeof coveringRecordSchema>
 export type RecordField = keyof CoveringRecord
 
-export interface RecordError {
-  /** Position of the record in the input array. */
-  index: number
-  /** The record's ref when it could be read. */
-  ref: string | null
-  /** Field path, e.g. `loopPullOutMm`; empty when the record itself is wrong. */
-  field: string
-  message: string
-}
-
-export type ValidationResult
-  = | { ok: true, records: CoveringRecord[] }
-    | { ok: false, errors: RecordError[] }
-
-/** Validate an array of raw records; every error names the record index, its ref and the field. */
-export function validateRecords(input: unknown): ValidationResult {
-  if (!Array.isArray(input)) {
-    return { ok: false, errors: [{ index: -1, ref: null, field: '', message: 'input must be an array of records' }] }
-  }
-  const records: CoveringRecord[] = []
-  const errors: RecordError[] = []
-  for (let index = 0; index < input.length; index++) {
-    const raw: unknown = input[index]
-    const parsed = coveringRecordSchema.safeParse(raw)
-    if (parsed.success) {
-      records.push(parsed.data)
-      continue
-    }
-    const ref = raw !== null && typeof raw === 'object' && typeof (raw as { ref?: unknown }).ref === 'string' ? (raw as { ref: string }).ref : null
-    for (const issue of parsed.error.issues) {
-      errors.push({ index, ref, field: issue.path.map(String).join('.'), message: issue.message })
-    }
-  }
-  return errors.length > 0 ? { ok: false, errors } : { ok: true, records }
-}
-
-/** One line per error, for people: `record 3 (ref "K-12"): loopPullOutMm: must be at least 0 mm`. */
-export function formatRecordError(e: RecordError): string {
-  const where = e.index < 0 ? 'input' : `record ${e.index}${e.ref !== null ? ` (ref ${JSON.stringify(e.ref)})` : ''}`
-  return `${where}: ${e.field === '' ? '' : `${e.field}: `}${e.message}`
-}
+// validateRecords(), formatRecordError() and the fast parser live in validate.ts.

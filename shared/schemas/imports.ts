@@ -71,6 +71,18 @@ export const measurementAbout: Partial<Record<RecordField, string>> = {
   jointFreeCordsMm: 'length two free cords reach when joined (0 with one free end)',
   innerCordsReachable: 'inner cords can be reached',
   longerCordRequested: 'buyer asked for a longer operating cord',
+  innerLoopPullOutMm: 'longest loop an inner or rear cord can be pulled out to, laid flat',
+  innerCordLoop: 'an inner or rear cord can be pulled into a loop a child\'s head could pass through',
+  operatingCordsInaccessible: 'the operating cord or loop cannot be reached (shroud or built-in restraint)',
+  tensionDeviceHoldsTaut: 'the fixed tension device holds the loop taut',
+  tensionDeviceFactoryFitted: 'the tension device came attached from the maker',
+  operatesWithoutTensionDevice: 'the covering still works with the tension device not under tension',
+  freeTiltCord: 'a free-hanging tilt cord is fitted',
+  multiCordConnector: 'several operating cords end in one connector or tassel',
+  installedPerInstructions: 'installed as the packaged instructions say',
+  installedByBusiness: 'installed by a business (in trade or commerce)',
+  childFreePremisesWarning: 'marked for premises without young children',
+  bilingualInformation: 'information and instructions in English and French',
 }
 
 /** camelCase record field → snake_case column: `tensionDeviceHoldN` → `tension_device_hold_n`. */
