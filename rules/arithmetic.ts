@@ -1,6 +1,7 @@
 import { corded, looped } from './record'
 import type { ControlType, Jurisdiction, MadeTo } from './record'
 import { ruleSets } from './sets'
+import { inchesToMm } from './units'
 import type { Basis, Unit } from './types'
 
 // The installer's figures read their thresholds from the built-in clauses, so the calculator and the
@@ -49,12 +50,13 @@ export interface DropInput {
 }
 
 /**
- * Longest chain or cord drop below the headrail that needs no safety device, in whole mm; null when the
+ * Longest chain or cord drop below the headrail that needs no safety device, in mm (whole mm except the US 8 in); null when the
  * control has no cord or no figure exists.
  * - AU: Safety Standard 2014 s 6(1)(a): the loop's lowest point stays above 1600 mm (a point at 1600 mm is
  *   inside, stricter reading), or the loop is shorter than 220 mm.
  * - CA: SOR/2019-97 ss 5–7: 220 mm (a 440 mm loop perimeter), whatever the height.
- * - US: 16 CFR 1120.3(e) / A100.1-2018 §4.3.1: stock 203 mm (8 in); custom loops always need a tension device
+ * - US: 16 CFR 1120.3(e) / A100.1-2018 §4.3.1: stock free cords 203.2 mm (8 in exactly), stock loops 0 (they
+ *   must be inaccessible); custom loops always need a tension device
  *   (0); custom free cords 40 % of product height (2018 edition) or none (2022 edition, from 1 June 2024).
  * - EU: EN 13120+A1 (secondary): lowest point at least 1500 mm, so head height less 1500 mm.
  */
@@ -75,7 +77,9 @@ export function maxUnguardedDropMm(input: DropInput): number | null {
       return control === 'free_cord' ? Math.min(free, loop) : Math.min(loop, span)
     }
     case 'US': {
-      const stock = thresholdOf('US', 'us.stock-operating-cords', 'shortCordMaxMm')
+      const stockShort = inchesToMm(thresholdOf('US', 'us.stock-operating-cords', 'shortCordMaxIn'))
+      // A stock continuous loop is never a short cord: it must be inaccessible (A100.1-2018 §4.3.1).
+      const stock = looped.includes(control) ? 0 : stockShort
       let custom: number | null
       if (looped.includes(control)) custom = 0
       else if (usEdition2022(input.manufacturedOn)) custom = 0
@@ -275,15 +279,7 @@ export function pullOutFromPerimeterMm(perimeterMm: number): number {
   return perimeterMm / 2
 }
 
-/** Inches to millimetres (1 in = 25.4 mm exactly, by definition). */
-export function inchesToMm(inches: number): number {
-  return inches * 25.4
-}
-
-/** Millimetres to inches (1 in = 25.4 mm exactly, by definition). */
-export function mmToInches(mm: number): number {
-  return mm / 25.4
-}
+export { inchesToMm, mmToInches } from './units'
 
 export interface GuideFigure {
   value: number | null

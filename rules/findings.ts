@@ -89,14 +89,17 @@ export function requireFlag(
   return missing(cx, field, true, null, missingMessage, missingFix)
 }
 
-/** Largest loop that can be pulled out: the larger of the pull-out and half the perimeter when both are recorded (stricter). */
-export function loopPullOut(pullOutMm: number | null, perimeterMm: number | null): number | null {
-  if (perimeterMm === null) return pullOutMm
-  const fromPerimeter = perimeterMm / 2
-  return pullOutMm === null || fromPerimeter > pullOutMm ? fromPerimeter : pullOutMm
+/** The longer of two recorded lengths; null only when neither was recorded (the longest cord decides). */
+export function longestOf(a: number | null, b: number | null): number | null {
+  if (a === null) return b
+  if (b === null) return a
+  return a >= b ? a : b
 }
 
-/** Largest loop perimeter: the larger of the perimeter and twice the pull-out when both are recorded (stricter). */
+/**
+ * Largest loop perimeter a record shows: the recorded perimeter, or twice a recorded pull-out when that is larger
+ * (a loop pulled out L mm flat is at least 2L mm round), so a measured figure is never made smaller.
+ */
 export function loopPerimeter(pullOutMm: number | null, perimeterMm: number | null): number | null {
   if (pullOutMm === null) return perimeterMm
   const fromPullOut = pullOutMm * 2

@@ -6,7 +6,7 @@ export type Basis = 'published' | 'secondary' | 'common_practice' | 'memory'
 export type ClauseKind = 'requirement' | 'advice' | 'history'
 export type ClauseVerdict = 'pass' | 'fail' | 'missing' | 'not_applicable' | 'advice'
 export type OverallVerdict = 'compliant' | 'non_compliant' | 'incomplete' | 'not_applicable'
-export type Unit = 'mm' | 'N' | '%' | 'mg/kg' | 's'
+export type Unit = 'mm' | 'in' | 'N' | '%' | 'mg/kg' | 's'
 export type MeasuredValue = number | boolean | string | null
 export type DateField = 'installedOn' | 'manufacturedOn'
 

@@ -1,12 +1,15 @@
-import { advise, fail, loopPullOut, missing, notApplicable, pass, requireFlag } from '../findings'
-import { corded, looped, premisesTypes } from '../record'
-import type { CoveringRecord } from '../record'
-import type { Clause, ClauseContext, DateWindow, Finding, RuleSet } from '../types'
+import { advise, fail, missing, notApplicable, pass, requireFlag } from '../findings'
+import { corded, innerCorded, premisesTypes } from '../record'
+import type { CoveringRecord, RecordField } from '../record'
+import type { Clause, ClauseContext, DateWindow, Evaluator, Finding, RuleSet } from '../types'
 import { sharedAdvice } from './advice'
 
 const SAFETY_STANDARD_2014 = 'Competition and Consumer (Corded Internal Window Coverings) Safety Standard 2014'
 const ACCC_GUIDE = 'ACCC, Corded internal window coverings — installation guide (November 2014)'
-const NSW_SUMMARY = 'NSW Government, Blind and curtain safety (summary of the 2014 safety standard)'
+// The Standard's own text was not in the sources read: its s 6(1)(a) is quoted by the ACCC guide; the other
+// provisions below are cited to the Standard as restated by the ACCC guide and productsafety.gov.au, and their
+// subsection numbers are not given because they were not seen.
+const AS_RESTATED = 'provision restated by the ACCC installation guide (Nov 2014) and productsafety.gov.au; subsection number not seen'
 const SUPPLY_REGULATIONS_2010
   = 'Trade Practices (Consumer Product Safety Standard — Corded Internal Window Coverings) Regulations 2010'
 
@@ -15,73 +18,120 @@ const INSTALLED_FROM_2015: DateWindow = { fields: ['installedOn'], from: '2015-0
 // The 2010 regulations bind supply after 30 December 2010; the installation or manufacture date stands in for supply.
 const SUPPLIED_FROM_2011: DateWindow = { fields: ['installedOn', 'manufacturedOn'], from: '2010-12-31' }
 
-const INSTALLATION_SCOPE = 'corded coverings installed by a business from 1 January 2015 (installations before then are not covered: the standard is not retrospective)'
+const INSTALLATION_SCOPE = 'corded coverings, and products with inner or rear cords, installed by a business from 1 January 2015 (installations before then are not covered: the standard is not retrospective)'
+
+/**
+ * The 2014 standard binds installation supplied in trade or commerce (productsafety.gov.au and WA Consumer
+ * Protection: "installation services"); an occupier fitting their own covering is outside it. Not recorded counts
+ * as installed by a business (stricter).
+ */
+function byBusiness(evaluate: Evaluator): Evaluator {
+  return (r, cx) =>
+    r.installedByBusiness === false
+      ? notApplicable(cx, 'Not installed by a business: the 2014 standard binds installation supplied in trade or commerce.')
+      : evaluate(r, cx)
+}
+
+interface Loop { field: RecordField, value: number | null }
+
+/**
+ * The loops a child could form on this covering, as pull-outs: the operating cord or chain (corded controls) and
+ * the inner or rear cords (roman, venetian, cellular, pleated, unless they cannot be reached). A recorded
+ * perimeter only bounds the pull-out from above: when half of it is already short of the limit the loop passes;
+ * otherwise the pull-out itself must be measured (a tensioned chain keeps its perimeter but cannot be pulled out).
+ */
+function loopsOf(r: CoveringRecord, loopMin: number): Loop[] {
+  const loops: Loop[] = []
+  if (corded.includes(r.control)) {
+    if (r.loopPullOutMm !== null) loops.push({ field: 'loopPullOutMm', value: r.loopPullOutMm })
+    else if (r.loopPerimeterMm !== null && r.loopPerimeterMm / 2 < loopMin) loops.push({ field: 'loopPerimeterMm', value: r.loopPerimeterMm / 2 })
+    else loops.push({ field: 'loopPullOutMm', value: null })
+  }
+  if (innerCorded.includes(r.productType) && r.innerCordsReachable !== false) loops.push({ field: 'innerLoopPullOutMm', value: r.innerLoopPullOutMm })
+  return loops
+}
 
 function loopReach(r: CoveringRecord, cx: ClauseContext): Finding {
   const loopMin = cx.t.loopMinMm!
   const zoneTop = cx.t.zoneTopMm!
-  const pull = loopPullOut(r.loopPullOutMm, r.loopPerimeterMm)
-  if (pull !== null && pull < loopMin) {
-    return pass(cx, 'loopPullOutMm', pull, loopMin, 'mm', `The largest loop that can be pulled out is ${pull} mm, shorter than ${loopMin} mm.`)
-  }
   const low = r.lowestCordPointMm
   if (low !== null && low > zoneTop) {
-    return pass(cx, 'lowestCordPointMm', low, zoneTop, 'mm', `The lowest point of the cord is ${low} mm above the floor, above the ${zoneTop} mm zone.`)
+    return pass(cx, 'lowestCordPointMm', low, zoneTop, 'mm', `The lowest point of any cord is ${low} mm above the floor, above the ${zoneTop} mm zone.`)
+  }
+  const loops = loopsOf(r, loopMin)
+  if (loops.length === 0) return notApplicable(cx, 'No operating cord and no reachable inner cords.')
+  let longest: Loop | null = null
+  let unmeasured: Loop | null = null
+  for (const l of loops) {
+    if (l.value === null) unmeasured ??= l
+    else if (longest === null || l.value > longest.value!) longest = l
   }
   const headInZone = r.headHeightMm !== null && r.headHeightMm <= zoneTop
-  if (pull === null) {
-    return missing(
+  const inner = (l: Loop) => (l.field === 'innerLoopPullOutMm' ? 'inner or rear cord' : 'operating cord or chain')
+  if (longest !== null && longest.value! >= loopMin) {
+    const pull = longest.value!
+    if (low === null && !headInZone) {
+      return missing(
+        cx,
+        'lowestCordPointMm',
+        zoneTop,
+        'mm',
+        `A loop of ${pull} mm can be pulled out of the ${inner(longest)}, but the height of the cord's lowest point was not recorded.`,
+        'Measure from the floor to the lowest point any cord or chain reaches, with the devices as fitted.',
+      )
+    }
+    const where = low !== null ? `its lowest point is ${low} mm above the floor` : `the headrail is only ${r.headHeightMm} mm above the floor`
+    return fail(
       cx,
-      'loopPullOutMm',
+      longest.field,
+      pull,
       loopMin,
       'mm',
-      `The cord reaches ${low !== null ? `${low} mm above the floor` : headInZone ? 'within the zone' : 'an unrecorded height'} and the size of loop it can form was not recorded.`,
-      'With the devices as fitted, pull out the largest loop you can from the cord or chain, lay it flat and record its length in mm.',
+      `A loop of ${pull} mm can be pulled out of the ${inner(longest)} and ${where}: no loop of ${loopMin} mm or longer may form within ${zoneTop} mm of the floor.`,
+      longest.field === 'innerLoopPullOutMm'
+        ? `Fit or adjust the inner cord stops so no loop of ${loopMin} mm can be pulled out, or replace the product with one whose inner cords cannot be reached.`
+        : r.tensionDevice === true
+          ? `Tighten or move the tension device so the loop is held taut and no loop of ${loopMin} mm can be pulled out.`
+          : `Fit a tension device fixed to the wall or frame that holds the loop taut, or shorten or raise the cord so its lowest point is above ${zoneTop} mm.`,
     )
   }
-  if (low === null && !headInZone) {
+  if (unmeasured !== null) {
+    const innerLoop = unmeasured.field === 'innerLoopPullOutMm'
     return missing(
       cx,
-      'lowestCordPointMm',
-      zoneTop,
+      unmeasured.field,
+      loopMin,
       'mm',
-      `A loop of ${pull} mm can be pulled out, but the height of the cord's lowest point was not recorded.`,
-      'Measure from the floor to the lowest point any cord or chain reaches, with the devices as fitted.',
+      `The cord reaches ${low !== null ? `${low} mm above the floor` : headInZone ? 'within the zone' : 'an unrecorded height'} and the loop the ${inner(unmeasured)} can form was not recorded.`,
+      innerLoop
+        ? 'With the covering fully lowered, pull an inner or rear cord out as far as it comes, lay the loop flat and record its length in mm (0 if none comes out).'
+        : 'With the devices as fitted, pull the cord or chain out as far as it comes, lay the loop flat and record its length in mm (a recorded perimeter is not the pull-out).',
     )
   }
-  const where = low !== null ? `its lowest point is ${low} mm above the floor` : `the headrail is only ${r.headHeightMm} mm above the floor`
-  return fail(
-    cx,
-    'loopPullOutMm',
-    pull,
-    loopMin,
-    'mm',
-    `A loop of ${pull} mm can be pulled out and ${where}: no loop of ${loopMin} mm or longer may form within ${zoneTop} mm of the floor.`,
-    r.tensionDevice === true
-      ? `Tighten or move the tension device so the loop is held taut and no loop of ${loopMin} mm can be pulled out.`
-      : `Fit a tension device fixed to the wall or frame that holds the loop taut, or shorten or raise the cord so its lowest point is above ${zoneTop} mm.`,
-  )
+  const pull = longest!.value!
+  return pass(cx, longest!.field, pull, loopMin, 'mm', `The largest loop that can be pulled out is ${pull} mm, shorter than ${loopMin} mm.`)
 }
 
 function tensionDevice(r: CoveringRecord, cx: ClauseContext): Finding {
   const zoneTop = cx.t.zoneTopMm!
   const holdMin = cx.t.holdMinN!
-  if (r.tensionDevice === false) return notApplicable(cx, 'No tension device is fitted; the loop clause decides whether one is needed.')
+  const loopMin = cx.t.loopMinMm!
+  if (r.tensionDevice === false) return notApplicable(cx, 'No cord guide or tension device is fitted; the loop clause decides whether one is needed.')
   if (r.tensionDevice === null) {
     if (r.lowestCordPointMm !== null && r.lowestCordPointMm > zoneTop) {
-      return notApplicable(cx, `The cord stays above ${zoneTop} mm, so no tension device is needed.`)
+      return notApplicable(cx, `The cord stays above ${zoneTop} mm, so no cord guide is needed.`)
     }
-    const pull = loopPullOut(r.loopPullOutMm, r.loopPerimeterMm)
-    if (pull !== null && pull < cx.t.loopMinMm!) {
-      return notApplicable(cx, `No loop of ${cx.t.loopMinMm} mm can be pulled out, so no tension device is needed.`)
+    if (r.loopPullOutMm !== null && r.loopPullOutMm < loopMin) {
+      return notApplicable(cx, `No loop of ${loopMin} mm can be pulled out, so no cord guide is needed.`)
     }
-    return missing(cx, 'tensionDevice', true, null, 'Not recorded whether a tension device holds the loop.', 'Record whether a tension device (cord guide) is fitted.')
+    return missing(cx, 'tensionDevice', true, null, 'Not recorded whether a cord guide or tension device holds the cord.', 'Record whether a cord guide or tension device is fitted, on a loop or a free cord.')
   }
   const h = r.tensionDeviceHeightMm
   if (h !== null && h > zoneTop) {
-    return pass(cx, 'tensionDeviceHeightMm', h, zoneTop, 'mm', `The tension device is fixed ${h} mm above the floor, above ${zoneTop} mm; no pull test is required there.`)
+    return pass(cx, 'tensionDeviceHeightMm', h, zoneTop, 'mm', `The cord guide is fixed ${h} mm above the floor, above ${zoneTop} mm; no pull test is required there.`)
   }
   const hold = r.tensionDeviceHoldN
+  const pull = r.loopPullOutMm
   const at = h !== null ? `at ${h} mm` : 'at an unrecorded height'
   if (hold !== null && hold < holdMin) {
     return fail(
@@ -90,7 +140,7 @@ function tensionDevice(r: CoveringRecord, cx: ClauseContext): Finding {
       hold,
       holdMin,
       'N',
-      `The tension device ${at} held only ${hold} N; below ${zoneTop} mm it must stay fixed under ${holdMin} N in any direction for 10 s.`,
+      `The cord guide ${at} held only ${hold} N; below ${zoneTop} mm it must stay fixed under ${holdMin} N in any direction for 10 s.`,
       `Refix it with fixings that suit the wall (screws into timber, plugs in masonry, anchors in plasterboard) and repeat the ${holdMin} N pull test, or fix it above ${zoneTop} mm.`,
     )
   }
@@ -101,15 +151,26 @@ function tensionDevice(r: CoveringRecord, cx: ClauseContext): Finding {
       false,
       true,
       null,
-      `A child could take the cord out of the tension device ${at}.`,
-      'Fit a tension device that locks the cord in so it cannot be removed by hand.',
+      `A child could take the cord out of the cord guide ${at}.`,
+      'Fit a cord guide that locks the cord in so it cannot be removed by hand.',
     )
   }
-  if (hold !== null && r.tensionDeviceTamperProof === true) {
-    return pass(cx, 'tensionDeviceHoldN', hold, holdMin, 'N', `The tension device ${at} held ${hold} N and a child cannot take the cord out.`)
+  if (pull !== null && pull >= loopMin) {
+    return fail(
+      cx,
+      'loopPullOutMm',
+      pull,
+      loopMin,
+      'mm',
+      `The cord guide ${at} leaves a loop of ${pull} mm that can be pulled out; below ${zoneTop} mm it must hold the cord so no loop of ${loopMin} mm can form.`,
+      'Refix the guide lower or tighten it so the cord is held taut, then ease it about 10 mm so it still runs.',
+    )
   }
-  if (h === null) {
-    return missing(cx, 'tensionDeviceHeightMm', zoneTop, 'mm', 'The height of the tension device was not recorded.', 'Measure from the floor to the tension device and record it in mm.')
+  if (hold !== null && r.tensionDeviceTamperProof === true && pull !== null) {
+    return pass(cx, 'tensionDeviceHoldN', hold, holdMin, 'N', `The cord guide ${at} held ${hold} N, keeps the cord in and leaves no loop of ${loopMin} mm.`)
+  }
+  if (h === null && (hold === null || r.tensionDeviceTamperProof !== true)) {
+    return missing(cx, 'tensionDeviceHeightMm', zoneTop, 'mm', 'The height of the cord guide was not recorded.', 'Measure from the floor to the cord guide and record it in mm.')
   }
   if (hold === null) {
     return missing(
@@ -117,17 +178,40 @@ function tensionDevice(r: CoveringRecord, cx: ClauseContext): Finding {
       'tensionDeviceHoldN',
       holdMin,
       'N',
-      `The tension device is fixed at ${h} mm, within ${zoneTop} mm of the floor, and no pull-test figure was recorded.`,
+      `The cord guide is fixed ${at}, within ${zoneTop} mm of the floor, and no pull-test figure was recorded.`,
       `Pull the fixed device with ${holdMin} N (about 7 kg) in each direction for 10 s and record the force it held.`,
+    )
+  }
+  if (r.tensionDeviceTamperProof === null) {
+    return missing(
+      cx,
+      'tensionDeviceTamperProof',
+      true,
+      null,
+      'Not recorded whether a child could take the cord out of the cord guide.',
+      'Try to lift the cord out of the device by hand and record whether it stays in.',
     )
   }
   return missing(
     cx,
-    'tensionDeviceTamperProof',
-    true,
-    null,
-    'Not recorded whether a child could take the cord out of the tension device.',
-    'Try to lift the cord out of the device by hand and record whether it stays in.',
+    'loopPullOutMm',
+    loopMin,
+    'mm',
+    `The cord guide is fixed ${at}; it was not recorded how far the cord can still be pulled out.`,
+    'With the guide fixed, pull the cord or chain out as far as it comes, lay the loop flat and record its length in mm.',
+  )
+}
+
+function installedPerInstructions(r: CoveringRecord, cx: ClauseContext): Finding {
+  return requireFlag(
+    cx,
+    'installedPerInstructions',
+    r.installedPerInstructions,
+    'Installed as the instructions on the retail packaging say.',
+    'Not installed as the instructions on the retail packaging say.',
+    'Refit the covering and its safety devices as the packaged instructions say.',
+    'Not recorded whether the covering was installed as its packaged instructions say.',
+    'Check the installation against the instructions on the product’s retail packaging and record it.',
   )
 }
 
@@ -234,7 +318,7 @@ export const auClauses: readonly Clause[] = [
     kind: 'requirement',
     source: { document: SAFETY_STANDARD_2014, section: 's 6(1)(a)' },
     basis: 'published',
-    appliesTo: { description: INSTALLATION_SCOPE, controls: corded, dates: INSTALLED_FROM_2015 },
+    appliesTo: { description: INSTALLATION_SCOPE, controls: corded, innerCordProducts: true, dates: INSTALLED_FROM_2015 },
     thresholds: [
       { name: 'loopMinMm', value: 220, unit: 'mm', note: 'a loop this long or longer is a hazard; one manufacturer manual prints 200 mm, the official figure is 220 mm' },
       {
@@ -244,64 +328,74 @@ export const auClauses: readonly Clause[] = [
         note: 'the ACCC guide says "less than 1600 mm", official summaries "at or less than 1,600 mm": stricter reading, a lowest point at 1600 mm is inside',
       },
     ],
-    note: 'The loop is measured as fitted, with tension devices and cleats in use. Stricter reading of the boundary: a loop whose lowest point is exactly 1600 mm above the floor is inside the zone.',
-    evaluate: loopReach,
+    note: 'The loop is what a child can pull out (loopPullOutMm), measured as fitted, with tension devices and cleats in use; a recorded perimeter only bounds it from above. "A loose cord" includes inner and rear cords that can be pulled into a loop (innerLoopPullOutMm). Stricter reading of the boundary: a loop whose lowest point is exactly 1600 mm above the floor is inside the zone.',
+    evaluate: byBusiness(loopReach),
   },
   {
     id: 'au.tension-device',
-    title: 'A tension device fixed below 1600 mm holds 70 N and keeps the cord',
+    title: 'A cord guide or tension device fixed below 1600 mm holds 70 N, keeps the cord and leaves no 220 mm loop',
     kind: 'requirement',
-    source: { document: ACCC_GUIDE, section: 'cord guides and tension devices fixed lower than 1600 mm' },
+    source: { document: SAFETY_STANDARD_2014, section: `cord guides installed lower than 1600 mm (${AS_RESTATED})` },
     basis: 'published',
-    appliesTo: { description: `chain and cord loops, ${INSTALLATION_SCOPE}`, controls: looped, dates: INSTALLED_FROM_2015 },
+    appliesTo: { description: `every cord guide or tension device, on loops and free cords alike, ${INSTALLATION_SCOPE}`, controls: corded, dates: INSTALLED_FROM_2015 },
     thresholds: [
       { name: 'holdMinN', value: 70, unit: 'N', note: 'in any direction for 10 s, about 7 kg' },
       { name: 'holdSeconds', value: 10, unit: 's' },
       { name: 'loopMinMm', value: 220, unit: 'mm', note: 'the device must hold the cord so no loop this long can form' },
       { name: 'zoneTopMm', value: 1600, unit: 'mm', note: 'a device at 1600 mm needs the pull test (stricter reading, as for the loop)' },
     ],
-    note: 'The device must stay fixed to the wall or structure, hold the loop taut (see au.loop-reach) and keep a child from taking the cord out.',
-    evaluate: tensionDevice,
+    note: 'Applies to any cord guide or tension device fixed lower than 1600 mm, whether it holds a loop or a free cord (ACCC installation guide). It must stay fixed to the wall or structure under 70 N, hold the cord so no 220 mm loop can form, and keep a child from taking the cord out.',
+    evaluate: byBusiness(tensionDevice),
   },
   {
     id: 'au.cleat-height',
     title: 'A cleat securing a cord is at least 1600 mm up',
     kind: 'requirement',
-    source: { document: SAFETY_STANDARD_2014, section: 'cleats (as summarised by productsafety.gov.au, Blinds, curtains and window fittings)' },
+    source: { document: SAFETY_STANDARD_2014, section: `cleats (${AS_RESTATED})` },
     basis: 'published',
     appliesTo: { description: INSTALLATION_SCOPE, controls: corded, dates: INSTALLED_FROM_2015 },
     thresholds: [{ name: 'cleatMinMm', value: 1600, unit: 'mm', note: 'no strength figure is set for cleats' }],
-    evaluate: cleatHeight,
+    evaluate: byBusiness(cleatHeight),
+  },
+  {
+    id: 'au.installed-per-instructions',
+    title: 'Installed as the packaged instructions say',
+    kind: 'requirement',
+    source: { document: SAFETY_STANDARD_2014, section: `installation in accordance with the instructions on the retail packaging (${AS_RESTATED})` },
+    basis: 'published',
+    appliesTo: { description: INSTALLATION_SCOPE, controls: corded, innerCordProducts: true, dates: INSTALLED_FROM_2015 },
+    thresholds: [],
+    evaluate: byBusiness(installedPerInstructions),
   },
   {
     id: 'au.installer-label',
     title: 'Installer\'s name and contact on a label',
     kind: 'requirement',
-    source: { document: NSW_SUMMARY, section: 'installer\'s label' },
+    source: { document: SAFETY_STANDARD_2014, section: `installer's label (${AS_RESTATED}; also NSW Government, Blind and curtain safety)` },
     basis: 'published',
     appliesTo: { description: INSTALLATION_SCOPE, controls: corded, dates: INSTALLED_FROM_2015 },
     thresholds: [],
-    evaluate: installerLabel,
+    evaluate: byBusiness(installerLabel),
   },
   {
     id: 'au.warning-label-kept',
     title: 'Supplied warning label left attached',
     kind: 'requirement',
-    source: { document: NSW_SUMMARY, section: 'warning labels and swing tags stay attached' },
+    source: { document: SAFETY_STANDARD_2014, section: `warning labels and swing tags stay attached (${AS_RESTATED}; also NSW Government, Blind and curtain safety)` },
     basis: 'published',
     appliesTo: { description: INSTALLATION_SCOPE, controls: corded, dates: INSTALLED_FROM_2015 },
     thresholds: [],
-    evaluate: warningLabelKept,
+    evaluate: byBusiness(warningLabelKept),
   },
   {
     id: 'au.swing-tag-kept',
     title: 'Supplied swing tag left on the cord',
     kind: 'requirement',
-    source: { document: NSW_SUMMARY, section: 'warning labels and swing tags stay attached' },
+    source: { document: SAFETY_STANDARD_2014, section: `warning labels and swing tags stay attached (${AS_RESTATED}; also NSW Government, Blind and curtain safety)` },
     basis: 'published',
     appliesTo: { description: INSTALLATION_SCOPE, controls: corded, dates: INSTALLED_FROM_2015 },
     thresholds: [],
-    evaluate: swingTagKept,
+    evaluate: byBusiness(swingTagKept),
   },
   {
     id: 'au.supply-swing-tag',
@@ -351,9 +445,12 @@ export const auClauses: readonly Clause[] = [
 export const auRuleSet: RuleSet = {
   jurisdiction: 'AU',
   name: 'Australia',
-  version: 'AU-2026.12.0',
+  version: 'AU-2026.12.1',
   scope: {
-    description: 'Installation of corded internal window coverings by a business (2014 standard) and their supply (2010 regulations), in any premises.',
+    description:
+      'Installation of corded internal window coverings supplied in trade or commerce (2014 standard, from 1 January 2015) and their supply (2010 regulations). '
+      + 'Premises: the Standard\'s own application section was not seen. Official summaries (productsafety.gov.au; WA Consumer Protection) describe installation services with no limit to dwellings; '
+      + 'the ACCC\'s 2013 consultation proposed domestic dwellings and one trade page says residential buildings (secondary). Tautline checks every premises (stricter) until the Standard\'s text is read.',
     premises: premisesTypes,
   },
   clauses: auClauses,

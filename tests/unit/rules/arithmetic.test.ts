@@ -34,8 +34,9 @@ describe('maxUnguardedDropMm — longest drop needing no safety device', () => {
     expect(maxUnguardedDropMm({ jurisdiction: 'CA', headHeightMm: 1200, control: 'chain_loop' })).toBe(220)
   })
 
-  it('US: stock 203 mm (16 CFR 1120.3(e)); custom loops 0 (A100.1 tension device); custom free cords 40 % (2018) or 0 (2022)', () => {
-    expect(maxUnguardedDropMm({ jurisdiction: 'US', headHeightMm: 2400, control: 'free_cord', madeTo: 'stock' })).toBe(203)
+  it('US: stock free cords 8 in = 203.2 mm, stock loops 0 (16 CFR 1120.3(e), A100.1-2018 §4.3.1); custom loops 0 (A100.1 tension device); custom free cords 40 % (2018) or 0 (2022)', () => {
+    expect(maxUnguardedDropMm({ jurisdiction: 'US', headHeightMm: 2400, control: 'free_cord', madeTo: 'stock' })).toBe(203.2)
+    expect(maxUnguardedDropMm({ jurisdiction: 'US', headHeightMm: 2400, control: 'chain_loop', madeTo: 'stock' })).toBe(0)
     expect(maxUnguardedDropMm({ jurisdiction: 'US', headHeightMm: 2400, control: 'chain_loop', madeTo: 'custom' })).toBe(0)
     expect(
       maxUnguardedDropMm({ jurisdiction: 'US', headHeightMm: 2400, control: 'free_cord', madeTo: 'custom', productHeightMm: 1000, manufacturedOn: '2023-05' }),
@@ -163,7 +164,7 @@ describe('installerGuide', () => {
   it('US with a product height adds the 40 % default (A100.1-2018, secondary)', () => {
     const g = installerGuide({ jurisdiction: 'US', headHeightMm: 2400, control: 'free_cord', productHeightMm: 1500, madeTo: 'stock' })
     expect(g.usCustomOperatingCordDefault).toMatchObject({ value: 600, unit: 'mm', basis: 'secondary' })
-    expect(g.maxUnguardedDrop.value).toBe(203)
+    expect(g.maxUnguardedDrop.value).toBe(203.2)
   })
 
   it('notes when the chain is too long for the window (EN 13120+A1, secondary)', () => {

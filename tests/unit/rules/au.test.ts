@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest'
+import { ruleSets } from '../../../rules'
 import { auBase, check, clause } from './fixtures'
 
 // Sources: Competition and Consumer (Corded Internal Window Coverings) Safety Standard 2014 (SS2014);
@@ -34,13 +35,16 @@ describe('au.loop-reach — SS2014 s 6(1)(a): no loop of 220 mm or longer within
     expect(f).toMatchObject({ verdict: 'pass', measured: 1601, limit: 1600, field: 'lowestCordPointMm' })
   })
 
-  it('a perimeter of 440 mm is a 220 mm loop and fails; 438 mm passes (SS2014 s 6(1)(a))', () => {
-    expect(clause('au.loop-reach', auBase, { ...low, loopPullOutMm: null, loopPerimeterMm: 440 }).verdict).toBe('fail')
-    expect(clause('au.loop-reach', auBase, { ...low, loopPullOutMm: null, loopPerimeterMm: 438 }).verdict).toBe('pass')
+  it('a perimeter is not a pull-out: without a pull-out, 438 mm round bounds the loop to 219 mm and passes; 440 mm asks for the pull-out, never fails (SS2014 s 6(1)(a), the loop a child can form)', () => {
+    expect(clause('au.loop-reach', auBase, { ...low, loopPullOutMm: null, loopPerimeterMm: 438 })).toMatchObject({ verdict: 'pass', field: 'loopPerimeterMm', measured: 219 })
+    expect(clause('au.loop-reach', auBase, { ...low, loopPullOutMm: null, loopPerimeterMm: 440 })).toMatchObject({ verdict: 'missing', field: 'loopPullOutMm' })
   })
 
-  it('when pull-out and perimeter disagree the larger loop decides (SS2014 s 6(1)(a); stricter reading)', () => {
-    expect(clause('au.loop-reach', auBase, { ...low, loopPullOutMm: 100, loopPerimeterMm: 500 }).verdict).toBe('fail')
+  it('a correctly tensioned chain passes on its pull-out whatever its perimeter: 1200 mm round, 219 mm pull-out passes, 220 mm fails (SS2014 s 6(1)(a))', () => {
+    const tensioned = { lowestCordPointMm: 300, tensionDeviceHeightMm: 300, loopPerimeterMm: 1200 }
+    expect(clause('au.loop-reach', auBase, { ...tensioned, loopPullOutMm: 219 })).toMatchObject({ verdict: 'pass', field: 'loopPullOutMm', measured: 219 })
+    expect(clause('au.loop-reach', auBase, { ...tensioned, loopPullOutMm: 220 })).toMatchObject({ verdict: 'fail', field: 'loopPullOutMm', measured: 220 })
+    expect(check(auBase, { ...tensioned, loopPullOutMm: 15 }).verdict).toBe('compliant')
   })
 
   it('an unmeasured loop in the zone is missing loopPullOutMm (SS2014 s 6(1)(a))', () => {
@@ -124,12 +128,27 @@ describe('au.tension-device — ACCC guide: devices fixed lower than 1600 mm hol
     expect(clause('au.tension-device', auBase, { tensionDevice: null, loopPullOutMm: 300, lowestCordPointMm: 1601 }).verdict).toBe('not_applicable')
   })
 
-  it('does not cover free cords (ACCC guide: tension devices hold loops)', () => {
-    expect(clause('au.tension-device', auBase, { control: 'free_cord' }).verdict).toBe('not_applicable')
+  it('covers cord guides on free cords too: at 1000 mm, 69.9 N fails and 70 N passes (ACCC guide; SS2014 cord guides lower than 1600 mm)', () => {
+    const freeGuide = { control: 'free_cord' as const, cleat: false, tensionDeviceHeightMm: 1000, loopPullOutMm: 0 }
+    expect(clause('au.tension-device', auBase, { ...freeGuide, tensionDeviceHoldN: 69.9 })).toMatchObject({ verdict: 'fail', field: 'tensionDeviceHoldN', limit: 70 })
+    expect(clause('au.tension-device', auBase, { ...freeGuide, tensionDeviceHoldN: 70 })).toMatchObject({ verdict: 'pass', limit: 70 })
+    expect(check(auBase, { ...freeGuide, tensionDeviceHoldN: 40 }).verdict).toBe('non_compliant')
+  })
+
+  it('a free-cord guide a child can take the cord out of fails; not recorded is missing (ACCC guide)', () => {
+    const freeGuide = { control: 'free_cord' as const, cleat: false, tensionDeviceHeightMm: 1000, loopPullOutMm: 0 }
+    expect(clause('au.tension-device', auBase, { ...freeGuide, tensionDeviceTamperProof: false })).toMatchObject({ verdict: 'fail', field: 'tensionDeviceTamperProof' })
+    expect(clause('au.tension-device', auBase, { ...freeGuide, tensionDeviceTamperProof: null })).toMatchObject({ verdict: 'missing', field: 'tensionDeviceTamperProof' })
+  })
+
+  it('a guide below 1600 mm must hold the cord so no 220 mm loop forms: 219 mm passes, 220 mm fails, unmeasured is missing (ACCC guide; SS2014)', () => {
+    expect(clause('au.tension-device', auBase, { loopPullOutMm: 219 }).verdict).toBe('pass')
+    expect(clause('au.tension-device', auBase, { loopPullOutMm: 220 })).toMatchObject({ verdict: 'fail', field: 'loopPullOutMm', limit: 220 })
+    expect(clause('au.tension-device', auBase, { loopPullOutMm: null })).toMatchObject({ verdict: 'missing', field: 'loopPullOutMm' })
   })
 })
 
-describe('au.cleat-height — SS2014 (productsafety.gov.au summary): a cleat securing a cord is at least 1600 mm up', () => {
+describe('au.cleat-height — SS2014 cleats (as restated by the ACCC guide): a cleat securing a cord is at least 1600 mm up', () => {
   const corded = { control: 'free_cord' as const, tensionDevice: false, loopPullOutMm: 100, cleat: true }
 
   it('1600 mm passes, 1599 mm fails', () => {
@@ -148,7 +167,7 @@ describe('au.cleat-height — SS2014 (productsafety.gov.au summary): a cleat sec
   })
 })
 
-describe('labels — NSW Government summary of SS2014; supply Regulations 2010', () => {
+describe('labels — SS2014 installer\'s label and labels kept (restated by the ACCC guide, NSW Government); supply Regulations 2010', () => {
   it.each([
     ['au.installer-label', 'installerLabel'],
     ['au.warning-label-kept', 'warningLabel'],
@@ -185,5 +204,60 @@ describe('au.fixing-choice — ACCC guide, fixing options (advice)', () => {
   it('gives advice when a device or cleat is fitted and never changes the verdict', () => {
     expect(clause('au.fixing-choice', auBase).verdict).toBe('advice')
     expect(clause('au.fixing-choice', auBase, { tensionDevice: false, cleat: false }).verdict).toBe('not_applicable')
+  })
+})
+
+describe('inner and rear cords are loose cords — SS2014 s 6(1)(a) "a loose cord"', () => {
+  const roman = { productType: 'roman' as const, control: 'wand' as const, tensionDevice: false, lowestCordPointMm: 900 }
+
+  it('a wand-operated roman blind whose rear cords pull out 220 mm at 900 mm fails; 219 mm passes', () => {
+    expect(clause('au.loop-reach', auBase, { ...roman, innerLoopPullOutMm: 220 })).toMatchObject({ verdict: 'fail', field: 'innerLoopPullOutMm', measured: 220, limit: 220 })
+    expect(clause('au.loop-reach', auBase, { ...roman, innerLoopPullOutMm: 219 })).toMatchObject({ verdict: 'pass', measured: 219 })
+    expect(check(auBase, { ...roman, innerLoopPullOutMm: 300 }).verdict).toBe('non_compliant')
+  })
+
+  it('unmeasured inner cords are missing innerLoopPullOutMm; inner cords out of reach leave no loop to judge', () => {
+    expect(clause('au.loop-reach', auBase, { ...roman, innerLoopPullOutMm: null })).toMatchObject({ verdict: 'missing', field: 'innerLoopPullOutMm' })
+    expect(clause('au.loop-reach', auBase, { ...roman, innerLoopPullOutMm: null, innerCordsReachable: false }).verdict).toBe('not_applicable')
+  })
+
+  it('on a chain-operated venetian the longer of the two loops decides: a taut chain does not hide a 250 mm inner loop', () => {
+    const f = clause('au.loop-reach', auBase, { productType: 'venetian', loopPullOutMm: 15, innerLoopPullOutMm: 250 })
+    expect(f).toMatchObject({ verdict: 'fail', field: 'innerLoopPullOutMm', measured: 250 })
+    expect(f.fix).toMatch(/inner cord stops/)
+  })
+
+  it('inner loops at or above 1601 mm are outside the zone (SS2014 s 6(1)(a))', () => {
+    expect(clause('au.loop-reach', auBase, { ...roman, innerLoopPullOutMm: 400, lowestCordPointMm: 1601 }).verdict).toBe('pass')
+  })
+})
+
+describe('au.installed-per-instructions — SS2014: installed as the retail packaging\'s instructions say (productsafety.gov.au)', () => {
+  it('true passes, false fails, null is missing', () => {
+    expect(clause('au.installed-per-instructions', auBase).verdict).toBe('pass')
+    expect(clause('au.installed-per-instructions', auBase, { installedPerInstructions: false })).toMatchObject({ verdict: 'fail', field: 'installedPerInstructions' })
+    expect(clause('au.installed-per-instructions', auBase, { installedPerInstructions: null })).toMatchObject({ verdict: 'missing', field: 'installedPerInstructions' })
+  })
+})
+
+describe('AU scope — SS2014 binds installation supplied in trade or commerce (productsafety.gov.au; WA Consumer Protection)', () => {
+  it('an occupier\'s own fitting is outside the installation clauses, but supply labelling (Regulations 2010) still applies', () => {
+    const r = check(auBase, { installedByBusiness: false, tensionDevice: false, loopPullOutMm: 500, installerLabel: false, swingTag: false })
+    for (const id of ['au.loop-reach', 'au.tension-device', 'au.cleat-height', 'au.installed-per-instructions', 'au.installer-label', 'au.warning-label-kept', 'au.swing-tag-kept']) {
+      expect(r.findings.find(f => f.clause === id)!.verdict, id).toBe('not_applicable')
+    }
+    expect(r.findings.find(f => f.clause === 'au.supply-swing-tag')!.verdict).toBe('fail')
+  })
+
+  it('not recorded counts as installed by a business (stricter)', () => {
+    expect(clause('au.loop-reach', auBase, { installedByBusiness: null, tensionDevice: false, loopPullOutMm: 500 }).verdict).toBe('fail')
+  })
+
+  it('cleat, guide, label and swing-tag clauses cite the 2014 Safety Standard itself, and the scope says what was found on premises', () => {
+    for (const id of ['au.tension-device', 'au.cleat-height', 'au.installer-label', 'au.warning-label-kept', 'au.swing-tag-kept', 'au.installed-per-instructions']) {
+      expect(clause(id, auBase).source, id).toMatch(/^Competition and Consumer \(Corded Internal Window Coverings\) Safety Standard 2014, /)
+    }
+    expect(ruleSets.AU.scope.description).toMatch(/every premises/)
+    expect(ruleSets.AU.scope.description).toMatch(/trade or commerce/)
   })
 })

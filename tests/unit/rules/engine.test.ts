@@ -168,7 +168,7 @@ describe('the rulebook as data (describeRuleSets)', () => {
         expect(['requirement', 'advice', 'history']).toContain(c.kind)
         if (c.basis === 'common_practice') expect(c.source.document).toBe('common practice')
         if (c.source.url !== undefined) expect(c.source.url).toMatch(/^https:\/\//)
-        for (const t of c.thresholds) expect(['mm', 'N', '%', 'mg/kg', 's']).toContain(t.unit)
+        for (const t of c.thresholds) expect(['mm', 'in', 'N', '%', 'mg/kg', 's']).toContain(t.unit)
       }
     }
   })

@@ -30,6 +30,7 @@ export const auBase: CoveringRecordInput = {
   manufacturerLabel: true,
   climbableFurnitureNearby: false,
   childrensRoom: false,
+  installedPerInstructions: true,
 }
 
 export const caBase: CoveringRecordInput = {
@@ -50,6 +51,7 @@ export const caBase: CoveringRecordInput = {
   breakaway: false,
   warningLabel: true,
   manufacturerLabel: true,
+  bilingualInformation: true,
   climbableFurnitureNearby: false,
 }
 
@@ -67,6 +69,8 @@ export const usStockBase: CoveringRecordInput = {
   operatingCordLengthMm: 150,
   freeCordLengthMm: 150,
   manufacturerLabel: true,
+  warningLabel: true,
+  swingTag: true,
   climbableFurnitureNearby: false,
 }
 
@@ -84,7 +88,11 @@ export const usCustomLoopBase: CoveringRecordInput = {
   lowestCordPointMm: 900,
   loopPullOutMm: 20,
   tensionDevice: true,
+  tensionDeviceFactoryFitted: true,
+  operatesWithoutTensionDevice: false,
   manufacturerLabel: true,
+  warningLabel: true,
+  swingTag: true,
 }
 
 export const euBase: CoveringRecordInput = {

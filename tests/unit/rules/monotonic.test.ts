@@ -55,6 +55,18 @@ function generate(i: number): CoveringRecord {
     jointFreeCordsMm: maybe(mm(0, 400)),
     innerCordsReachable: flag(),
     longerCordRequested: flag(),
+    innerLoopPullOutMm: maybe(mm(0, 400)),
+    innerCordLoop: flag(),
+    operatingCordsInaccessible: flag(),
+    tensionDeviceHoldsTaut: flag(),
+    tensionDeviceFactoryFitted: flag(),
+    operatesWithoutTensionDevice: flag(),
+    freeTiltCord: flag(),
+    multiCordConnector: flag(),
+    installedPerInstructions: flag(),
+    installedByBusiness: flag(),
+    childFreePremisesWarning: flag(),
+    bilingualInformation: flag(),
   })
 }
 
@@ -104,6 +116,21 @@ describe('monotonic properties over 4000 generated records', () => {
       }
     }
     expect(compared).toBeGreaterThan(5000)
+  })
+
+  it('a longer inner-cord loop or operating cord never makes a covering safer (SS2014 s 6(1)(a); SOR/2019-97 ss 5, 7; 16 CFR 1120.3(e))', () => {
+    let compared = 0
+    for (const r of records) {
+      if (r.innerLoopPullOutMm !== null) {
+        expectNoSafer(run(r), run({ ...r, innerLoopPullOutMm: r.innerLoopPullOutMm + 50 }), `inner pull-out ${r.innerLoopPullOutMm} → +50`)
+        compared++
+      }
+      if (r.operatingCordLengthMm !== null) {
+        expectNoSafer(run(r), run({ ...r, operatingCordLengthMm: r.operatingCordLengthMm + 100 }), `operating cord ${r.operatingCordLengthMm} → +100`)
+        compared++
+      }
+    }
+    expect(compared).toBeGreaterThan(3000)
   })
 
   it('a weaker tension device pull test never makes a covering safer (ACCC guide, 70 N)', () => {

@@ -12,6 +12,12 @@ const RELEASED: Record<string, string> = {
   'CA-2026.12.0': '5b1ef9ae24069e87',
   'US-2026.12.0': '479479fd75aa1207',
   'EU-2026.12.0': 'd083220ad3e5a2d2',
+  // AU: pull-out read as measured, cord guides of every kind, inner and rear cords, installed per instructions,
+  // installation by a business, the Standard's own provisions cited.
+  // US: exact 8 in, stock loops, inner loops, maker's label on every covering, longest cord, edition dates,
+  // 2022 edition as secondary, warning label and tag, tilt cords, connectors, factory-fitted tension devices.
+  'AU-2026.12.1': '1950f7e090622612',
+  'US-2026.12.1': 'dc5fdff537e4dd5e',
 }
 
 /** JSON with object keys sorted, so the fingerprint does not depend on key order. */
