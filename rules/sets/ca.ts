@@ -1,12 +1,11 @@
-import { advise, fail, loopPerimeter, missing, notApplicable, pass, requireFlag } from '../findings'
-import { corded, looped, premisesTypes } from '../record'
+import { advise, fail, longestOf, loopPerimeter, missing, notApplicable, pass, requireFlag } from '../findings'
+import { corded, innerCorded, looped, premisesTypes } from '../record'
 import type { CoveringRecord } from '../record'
 import type { Clause, ClauseContext, DateWindow, Finding, RuleSet } from '../types'
 import { sharedAdvice } from './advice'
 
 const SOR_2019_97 = 'Corded Window Coverings Regulations, SOR/2019-97'
 const SOR_URL = 'https://laws-lois.justice.gc.ca/eng/regulations/SOR-2019-97/'
-const HEALTH_CANADA_GUIDANCE = 'Health Canada, Corded window coverings — industry guidance "Safety requirements"'
 
 // In force 1 May 2021. The regulations bind sale, and the sale date is not recorded: a covering made or
 // installed from that date is covered (stricter than testing the manufacture date alone).
@@ -17,7 +16,8 @@ const SHIELD_NOTE = 'A cord shield that comes unassembled or comes off without a
 function freeEndCord(r: CoveringRecord, cx: ClauseContext): Finding {
   const max = cx.t.freeEndMaxMm!
   const force = cx.t.pullForceN!
-  const length = r.freeCordLengthMm ?? (r.control === 'free_cord' ? r.operatingCordLengthMm : null)
+  // The longest cord decides: on a free-cord control the operating cord is a free-end cord too.
+  const length = r.control === 'free_cord' ? longestOf(r.freeCordLengthMm, r.operatingCordLengthMm) : r.freeCordLengthMm
   if (length === null) {
     if (r.control !== 'free_cord') return notApplicable(cx, 'No free-end cord is recorded on this covering.')
     return missing(
@@ -29,10 +29,11 @@ function freeEndCord(r: CoveringRecord, cx: ClauseContext): Finding {
       `Pull the longest reachable free-end cord with a force rising to ${force} N and record how far it reaches, in mm.`,
     )
   }
+  const field = r.freeCordLengthMm === length ? 'freeCordLengthMm' : 'operatingCordLengthMm'
   if (length > max) {
     return fail(
       cx,
-      'freeCordLengthMm',
+      field,
       length,
       max,
       'mm',
@@ -40,13 +41,32 @@ function freeEndCord(r: CoveringRecord, cx: ClauseContext): Finding {
       `Replace the control with a cordless, wand or motorised one, or with a cord no longer than ${max} mm. ${SHIELD_NOTE}`,
     )
   }
-  return pass(cx, 'freeCordLengthMm', length, max, 'mm', `The longest reachable free-end cord is ${length} mm, within ${max} mm.`)
+  return pass(cx, field, length, max, 'mm', `The longest reachable free-end cord is ${length} mm, within ${max} mm.`)
 }
+
+/** True when the only cords are inner cords recorded as out of reach (SOR/2019-97 s 1 "reachable"; s 4 keeps them so). */
+function onlyUnreachableInnerCords(r: CoveringRecord): boolean {
+  return !corded.includes(r.control) && innerCorded.includes(r.productType) && r.innerCordsReachable === false
+}
+
+const UNREACHABLE_INNER = 'The only cords are inner cords recorded as out of reach; s 4 requires them to stay so (see ca.unreachable-cords).'
 
 function contactSpan(r: CoveringRecord, cx: ClauseContext): Finding {
   const max = cx.t.spanMaxMm!
   const force = cx.t.pullForceN!
+  if (onlyUnreachableInnerCords(r)) return notApplicable(cx, UNREACHABLE_INNER)
   const span = r.cordSpanMm
+  if (span === null && r.loopPerimeterMm !== null && r.loopPerimeterMm <= 2 * max) {
+    // Two consecutive contact points split a loop into two spans, so no span of a loop of perimeter P exceeds P/2.
+    return pass(
+      cx,
+      'loopPerimeterMm',
+      r.loopPerimeterMm,
+      2 * max,
+      'mm',
+      `The largest loop measures ${r.loopPerimeterMm} mm round, so no span between contact points can exceed ${max} mm.`,
+    )
+  }
   if (span === null) {
     return missing(
       cx,
@@ -74,7 +94,9 @@ function contactSpan(r: CoveringRecord, cx: ClauseContext): Finding {
 function loopPerimeterClause(r: CoveringRecord, cx: ClauseContext): Finding {
   const max = cx.t.loopPerimeterMaxMm!
   const force = cx.t.pullForceN!
-  const perimeter = loopPerimeter(r.loopPullOutMm, r.loopPerimeterMm)
+  if (onlyUnreachableInnerCords(r)) return notApplicable(cx, UNREACHABLE_INNER)
+  const innerPullOut = innerCorded.includes(r.productType) && r.innerCordsReachable !== false ? r.innerLoopPullOutMm : null
+  const perimeter = loopPerimeter(longestOf(r.loopPullOutMm, innerPullOut), r.loopPerimeterMm)
   if (perimeter === null) {
     return missing(
       cx,
@@ -85,7 +107,9 @@ function loopPerimeterClause(r: CoveringRecord, cx: ClauseContext): Finding {
       `Pull at ${force} N to form or enlarge the largest loop you can, and record its perimeter in mm (or its pulled-out length in loopPullOutMm; ${max / 2} mm pulled out is a ${max} mm perimeter).`,
     )
   }
-  const field = r.loopPerimeterMm !== null && perimeter === r.loopPerimeterMm ? 'loopPerimeterMm' : 'loopPullOutMm'
+  const field = r.loopPerimeterMm !== null && perimeter === r.loopPerimeterMm
+    ? 'loopPerimeterMm'
+    : innerPullOut !== null && perimeter === innerPullOut * 2 ? 'innerLoopPullOutMm' : 'loopPullOutMm'
   if (perimeter > max) {
     return fail(
       cx,
@@ -153,6 +177,30 @@ function information(r: CoveringRecord, cx: ClauseContext): Finding {
   )
 }
 
+function bilingual(r: CoveringRecord, cx: ClauseContext): Finding {
+  return requireFlag(
+    cx,
+    'bilingualInformation',
+    r.bilingualInformation,
+    'The product information and instructions are in English and French.',
+    'The product information or instructions are not in both English and French.',
+    'Ask the supplier for the label, instructions and warning in English and French.',
+    'Not recorded whether the product information is in English and French.',
+    'Check the label, instructions and warning for English and French text and record it.',
+  )
+}
+
+function unreachableCords(r: CoveringRecord, cx: ClauseContext): Finding {
+  if (r.innerCordsReachable !== false) return notApplicable(cx, 'The inner cords are not recorded as out of reach; ss 5 to 7 judge them.')
+  return advise(
+    cx,
+    'innerCordsReachable',
+    false,
+    'The inner cords are out of reach; s 4 requires them to stay out of reach for the product\'s life, which only the supplier\'s testing can show.',
+    `Keep the supplier's declaration for s 4 on file. ${SHIELD_NOTE}`,
+  )
+}
+
 function smallParts(_r: CoveringRecord, cx: ClauseContext): Finding {
   return advise(
     cx,
@@ -200,6 +248,7 @@ export const caClauses: readonly Clause[] = [
       dates: IN_FORCE_2021,
     },
     thresholds: [{ name: 'spanMaxMm', value: 220, unit: 'mm', note: '22 cm' }, pullForce],
+    note: 'A recorded loop perimeter of 44 cm or less already bounds every span of that loop to 22 cm, so the span is not asked for then. Inner cords recorded as out of reach are left to s 4.',
     evaluate: contactSpan,
   },
   {
@@ -215,7 +264,7 @@ export const caClauses: readonly Clause[] = [
       dates: IN_FORCE_2021,
     },
     thresholds: [{ name: 'loopPerimeterMaxMm', value: 440, unit: 'mm', note: '44 cm; 22 cm pulled out flat' }, pullForce],
-    note: 'When both the perimeter and the pulled-out length are recorded, the larger loop they imply is checked.',
+    note: 'When the perimeter and pulled-out lengths (operating and inner cords) are recorded, the larger loop they imply is checked: a loop pulled out L mm flat is at least 2L mm round.',
     evaluate: loopPerimeterClause,
   },
   {
@@ -241,13 +290,36 @@ export const caClauses: readonly Clause[] = [
   },
   {
     id: 'ca.information',
-    title: 'Model, date and maker shown in English and French',
+    title: 'Model, date and maker shown on the product',
     kind: 'requirement',
-    source: { document: HEALTH_CANADA_GUIDANCE, section: 'information and labelling' },
+    source: { document: SOR_2019_97, section: 'information requirements: model, date of manufacture, name and address of manufacturer and importer (section number not seen)', url: SOR_URL },
     basis: 'secondary',
     appliesTo: { description: PRODUCT_SCOPE, controls: corded, innerCordProducts: true, dates: IN_FORCE_2021 },
     thresholds: [],
+    note: 'The list of information is seen only in a testing laboratory\'s summary of SOR/2019-97 (SGS), so the basis is secondary.',
     evaluate: information,
+  },
+  {
+    id: 'ca.bilingual-information',
+    title: 'Information and instructions in English and French',
+    kind: 'requirement',
+    source: { document: SOR_2019_97, section: 'information and warning in both official languages (section number not seen)', url: SOR_URL },
+    basis: 'secondary',
+    appliesTo: { description: PRODUCT_SCOPE, controls: corded, innerCordProducts: true, dates: IN_FORCE_2021 },
+    thresholds: [],
+    note: 'Read from industry guidance and the shared rules reference, not the regulation\'s text.',
+    evaluate: bilingual,
+  },
+  {
+    id: 'ca.unreachable-cords',
+    title: 'Cords out of reach stay out of reach (laboratory check)',
+    kind: 'advice',
+    source: { document: SOR_2019_97, section: 's 4', url: SOR_URL },
+    basis: 'published',
+    appliesTo: { description: `products with inner cords recorded as out of reach, ${PRODUCT_SCOPE}`, controls: corded, innerCordProducts: true, dates: IN_FORCE_2021 },
+    thresholds: [],
+    note: 'Whether a cord stays out of reach for the product\'s life is a design and test matter; Tautline points to the supplier\'s declaration.',
+    evaluate: unreachableCords,
   },
   {
     id: 'ca.small-parts',
@@ -277,7 +349,7 @@ export const caClauses: readonly Clause[] = [
 export const caRuleSet: RuleSet = {
   jurisdiction: 'CA',
   name: 'Canada',
-  version: 'CA-2026.12.0',
+  version: 'CA-2026.12.1',
   scope: {
     description:
       'Binds manufacturers, importers and sellers of corded window coverings; nothing binds installers or landlords. Applies wherever the product is used.',

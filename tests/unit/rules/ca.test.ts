@@ -60,8 +60,14 @@ describe('ca.contact-span — SOR/2019-97 s 6: span between contact points no lo
     expect(f.fix).toMatch(/tension device does not shorten/)
   })
 
-  it('unrecorded is missing cordSpanMm', () => {
-    expect(clause('ca.contact-span', caBase, { cordSpanMm: null })).toMatchObject({ verdict: 'missing', field: 'cordSpanMm' })
+  it('unrecorded, with no perimeter recorded either, is missing cordSpanMm', () => {
+    expect(clause('ca.contact-span', caBase, { cordSpanMm: null, loopPerimeterMm: null })).toMatchObject({ verdict: 'missing', field: 'cordSpanMm' })
+  })
+
+  it('a recorded perimeter of 440 mm or less bounds every span to 220 mm, so the span is not asked for; 441 mm still asks (SOR/2019-97 ss 6 and 7)', () => {
+    expect(clause('ca.contact-span', caBase, { cordSpanMm: null, loopPerimeterMm: 440 })).toMatchObject({ verdict: 'pass', field: 'loopPerimeterMm', measured: 440, limit: 440 })
+    expect(clause('ca.contact-span', caBase, { cordSpanMm: null, loopPerimeterMm: 441 })).toMatchObject({ verdict: 'missing', field: 'cordSpanMm' })
+    expect(check(caBase, { cordSpanMm: null }).verdict).toBe('compliant')
   })
 
   it('does not cover a free cord on a product without inner cords', () => {
@@ -111,7 +117,7 @@ describe('ca.joined-cords — SOR/2019-97 s 8 (secondary mapping): joinable free
   })
 })
 
-describe('labels — SOR/2019-97 s 15 (published) and information (Health Canada guidance, secondary)', () => {
+describe('labels — SOR/2019-97 s 15 (published) and information requirements of SOR/2019-97 (seen in a laboratory summary, secondary)', () => {
   it.each([
     ['ca.warning', 'warningLabel', 'published'],
     ['ca.information', 'manufacturerLabel', 'secondary'],
@@ -152,5 +158,43 @@ describe('laboratory checks — SOR/2019-97 s 2 (small parts, 90 N) and s 3 (lea
     expect(r.findings.find(x => x.clause === 'ca.small-parts')!.message).toMatch(/90 N/)
     expect(r.findings.find(x => x.clause === 'ca.lead')!.message).toMatch(/90 mg\/kg/)
     expect(r.verdict).toBe('compliant')
+  })
+})
+
+describe('the longer cord decides — SOR/2019-97 s 5', () => {
+  it('on a free-cord control a 0 mm free cord does not hide a 600 mm operating cord; 220 mm each way passes', () => {
+    expect(clause('ca.free-end-cord', caBase, { ...freeCord, freeCordLengthMm: 0, operatingCordLengthMm: 600 })).toMatchObject({ verdict: 'fail', measured: 600, field: 'operatingCordLengthMm' })
+    expect(clause('ca.free-end-cord', caBase, { ...freeCord, freeCordLengthMm: 220, operatingCordLengthMm: 0 }).verdict).toBe('pass')
+  })
+})
+
+describe('inner cords — SOR/2019-97 s 1 (reachable), s 4 (unreachable cords stay so), s 7 (loops)', () => {
+  const venetian = { control: 'cordless' as const, productType: 'venetian' as const, cordSpanMm: null, loopPerimeterMm: null, loopPullOutMm: null }
+
+  it('inner cords recorded as out of reach are left to s 4: spans and loops not applicable, with s 4 advice', () => {
+    const r = check(caBase, { ...venetian, innerCordsReachable: false })
+    expect(r.findings.find(f => f.clause === 'ca.contact-span')!.verdict).toBe('not_applicable')
+    expect(r.findings.find(f => f.clause === 'ca.loop-perimeter')!.verdict).toBe('not_applicable')
+    expect(r.findings.find(f => f.clause === 'ca.unreachable-cords')).toMatchObject({ verdict: 'advice', field: 'innerCordsReachable' })
+    expect(r.verdict).toBe('compliant')
+  })
+
+  it('reachable (or not recorded) inner cords are measured: missing until they are', () => {
+    expect(clause('ca.contact-span', caBase, { ...venetian, innerCordsReachable: true })).toMatchObject({ verdict: 'missing', field: 'cordSpanMm' })
+    expect(clause('ca.loop-perimeter', caBase, { ...venetian, innerCordsReachable: null }).verdict).toBe('missing')
+  })
+
+  it('an inner loop pulled out 221 mm is 442 mm round and fails; 220 mm passes (s 7)', () => {
+    expect(clause('ca.loop-perimeter', caBase, { ...venetian, innerLoopPullOutMm: 221 })).toMatchObject({ verdict: 'fail', measured: 442, field: 'innerLoopPullOutMm' })
+    expect(clause('ca.loop-perimeter', caBase, { ...venetian, innerLoopPullOutMm: 220 }).verdict).toBe('pass')
+  })
+})
+
+describe('ca.bilingual-information — information in English and French (SOR/2019-97, read through industry guidance: secondary)', () => {
+  it('true passes, false fails, null is missing; the information clauses rest on SOR/2019-97 itself', () => {
+    expect(clause('ca.bilingual-information', caBase).verdict).toBe('pass')
+    expect(clause('ca.bilingual-information', caBase, { bilingualInformation: false })).toMatchObject({ verdict: 'fail', field: 'bilingualInformation' })
+    expect(clause('ca.bilingual-information', caBase, { bilingualInformation: null }).verdict).toBe('missing')
+    for (const id of ['ca.information', 'ca.bilingual-information']) expect(clause(id, caBase).source, id).toMatch(/^Corded Window Coverings Regulations, SOR\/2019-97, /)
   })
 })

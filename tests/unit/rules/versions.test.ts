@@ -18,6 +18,9 @@ const RELEASED: Record<string, string> = {
   // 2022 edition as secondary, warning label and tag, tilt cords, connectors, factory-fitted tension devices.
   'AU-2026.12.1': '1950f7e090622612',
   'US-2026.12.1': 'dc5fdff537e4dd5e',
+  // CA: longest cord, perimeter bounds the span, inner cords out of reach (s 4), information on SOR/2019-97,
+  // bilingual information.
+  'CA-2026.12.1': '2842590e4e122e08',
 }
 
 /** JSON with object keys sorted, so the fingerprint does not depend on key order. */
