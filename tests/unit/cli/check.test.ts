@@ -33,7 +33,7 @@ const records = [
     installerLabel: true,
     unknownExtra: 'ignored',
   },
-  { ref: 'K-2', jurisdiction: 'EU', premises: 'office', productType: 'roller', control: 'chain_loop' },
+  { ref: 'K-2', jurisdiction: 'EU', premises: 'office', productType: 'roller', control: 'wand' },
 ]
 
 describe('scripts/check.ts', { timeout: 60_000 }, () => {

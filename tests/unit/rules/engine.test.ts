@@ -178,9 +178,12 @@ describe('the rulebook as data (describeRuleSets)', () => {
     expect(us.clauses.filter(c => c.kind === 'history').map(c => c.id)).toEqual(['us.cfr-1260-withdrawn'])
   })
 
-  it('EU scope leaves out offices and industrial premises', () => {
+  it('EU child-safety clauses leave out offices and industrial premises; there only the child-free-premises marking applies (EN 13120+A1 scope, Hampshire Trading Standards)', () => {
     const eu = described.find(s => s.jurisdiction === 'EU')!
-    expect(eu.scope.premises).not.toContain('office')
-    expect(eu.scope.premises).not.toContain('industrial')
+    for (const c of eu.clauses) {
+      const premises = c.appliesTo.premises ?? []
+      if (c.id === 'eu.child-free-warning') expect(premises.sort()).toEqual(['industrial', 'office'])
+      else expect(premises, c.id).not.toContain('office')
+    }
   })
 })

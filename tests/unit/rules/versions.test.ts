@@ -21,6 +21,9 @@ const RELEASED: Record<string, string> = {
   // CA: longest cord, perimeter bounds the span, inner cords out of reach (s 4), information on SOR/2019-97,
   // bilingual information.
   'CA-2026.12.1': '2842590e4e122e08',
+  // EU: working tension devices only, inner cords, cleat height, child-free marking, longest cord, A1 date,
+  // Commission decisions and Regulation (EU) 2023/988 cited.
+  'EU-2026.12.1': 'fdeb2bde8aef2471',
 }
 
 /** JSON with object keys sorted, so the fingerprint does not depend on key order. */
