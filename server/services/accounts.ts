@@ -54,11 +54,13 @@ export async function admitSignIn(db: Sequelize, email: string, address: string)
   return { admitted: false, message, retryAfterS }
 }
 
-/** A success ends the account's run of failures and is not counted against the address. */
+/**
+ * A success ends the account's run of failures from this address (a guesser elsewhere keeps theirs) and is not
+ * counted against the address.
+ */
 export async function signInSucceeded(db: Sequelize, email: string, address: string) {
   const keys = signInKeys(email, address)
-  await clearHits(db, [keys.account])
-  await clearHitsLike(db, `signin:account-address:${email.toLowerCase()}|`)
+  await clearHits(db, [keys.account, keys.accountAndAddress])
   await refundHits(db, [keys.address])
 }
 
