@@ -89,7 +89,11 @@ export async function requestReset(db: Sequelize, email: string, address: string
   const byAccount = (await countHits(db, [key], 60)).get(key)!
   if (byAccount.hits > resetLimits.perAccount) return { refused: false }
   const user = await findUserByEmail(db, email)
-  if (user?.active) await sendReset(db, user)
+  // Sent after the answer, so neither its time nor a relay failure tells whether the account exists; a failure is
+  // recorded against the account's workspace.
+  if (user?.active) {
+    sendReset(db, user).catch(err => console.error('[tautline] reset mail not sent:', (err as Error).message))
+  }
   return { refused: false }
 }
 
