@@ -14,18 +14,33 @@ export interface UserRow {
   invitePending: boolean
 }
 
+export type MailKind = 'invite' | 'reset' | 'report' | 'audit_request'
+export type MailStatus = 'sent' | 'retrying' | 'failed'
+
+/** One message of the workspace's record of sent mail (the Mailbox list). */
 export interface MailItem {
-  name: string
-  to: string | null
-  subject: string | null
-  date: string | null
-  sizeBytes: number
+  id: number
+  kind: MailKind
+  to: string[]
+  subject: string
+  status: MailStatus
+  attachmentCount: number
+  createdAt: string
 }
 
+/** One message as a person reads it: the text as sent, and attachments as links. */
 export interface MailMessage {
-  name: string
-  to: string | null
-  subject: string | null
-  date: string | null
-  raw: string
+  id: number
+  kind: MailKind
+  to: string[]
+  from: string
+  replyTo: string | null
+  subject: string
+  status: MailStatus
+  error: string | null
+  attempts: number
+  createdAt: string
+  causedBy: { id: number, name: string } | null
+  text: string | null
+  attachments: Array<{ index: number, fileName: string, sizeBytes: number, contentType: string, url: string }>
 }

@@ -1,3 +1,4 @@
+import { pruneRateLimits } from '../services/rate-limits'
 import { retryQueuedReportMails } from '../services/report-dispatch'
 
 /** How often each server process looks for queued report e-mails that are due again (REPORT_RETRY_EVERY_MS). */
@@ -12,6 +13,8 @@ export default defineNitroPlugin((nitro) => {
     running = true
     try {
       const r = await retryQueuedReportMails(useDb())
+      // The same timer sweeps rate-limit counters whose window ended a day ago.
+      await pruneRateLimits(useDb())
       if (r.claimed) console.info(`[tautline] report e-mail retry: ${r.sent} sent, ${r.queued} queued again, ${r.failed} given up`)
     }
     catch (err) {

@@ -7,7 +7,8 @@ import type { AuditRequest } from '../../shared/schemas/portfolio'
 import type { ListResult } from '../../shared/schemas/common'
 import type { DueState, PortfolioCoveringRow, PortfolioSummary, PortfolioUnitRow } from '../../shared/types/jobs'
 import { logActivity } from './activity'
-import { appUrl, sendMail } from './mail'
+import { appUrl, sendRecordedMail } from './mail'
+import { countHits, envLimit, minutesText, refundHits } from './rate-limits'
 import { likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
 
@@ -104,6 +105,9 @@ export class AuditRequestRefused extends Error {
   constructor(readonly field: string, message: string, readonly statusCode = 400) { super(message) }
 }
 
+/** Audit requests one manager may send in an hour (AUDIT_REQUESTS_PER_HOUR); each e-mails the whole office. */
+export const AUDIT_REQUESTS_PER_HOUR = envLimit('AUDIT_REQUESTS_PER_HOUR', 5)
+
 /** E-mails the workspace (its contact address and every officer) naming the sites and units, and logs it. */
 export async function requestAudit(db: Sequelize, actor: Actor & { name: string, email: string }, sites: Site[], body: AuditRequest) {
   const units = body.unitIds.length ? await Unit.findAll({ where: { id: body.unitIds } }) : []
@@ -125,7 +129,21 @@ export async function requestAudit(db: Sequelize, actor: Actor & { name: string,
     body.preferredFrom ? `Preferred from: ${body.preferredFrom}` : null, body.message ? `Message:\n${body.message}` : null, '',
     'Reply to this e-mail to reach them. Tautline supports judgement; it does not certify.',
   ].filter(l => l !== null).join('\n')
-  await sendMail({ to, replyTo: actor.email, subject: `Audit requested: ${client?.name ?? 'a client'} — ${sites.length === 1 ? sites[0]!.name : `${sites.length} sites`}`, text })
+  // Counted before the mail goes, so requests sent at once cannot all slip under the limit; one that fails to send is given back.
+  const key = `audit-request:user:${actor.id}`
+  const count = (await countHits(db, [key], 60)).get(key)!
+  if (count.hits > AUDIT_REQUESTS_PER_HOUR) {
+    await refundHits(db, [key])
+    throw new AuditRequestRefused('siteIds', `You have sent ${AUDIT_REQUESTS_PER_HOUR} audit requests in the last hour; the next can go in ${minutesText(count.retryAfterS)}. For anything urgent, call your installer.`, 429)
+  }
+  try {
+    await sendRecordedMail(db, { workspaceId: actor.workspaceId, causedBy: actor.id, kind: 'audit_request' },
+      { to, replyTo: actor.email, subject: `Audit requested: ${client?.name ?? 'a client'} — ${sites.length === 1 ? sites[0]!.name : `${sites.length} sites`}`, text })
+  }
+  catch (err) {
+    await refundHits(db, [key]).catch(() => undefined)
+    throw err
+  }
   await logActivity({ workspaceId: actor.workspaceId, userId: actor.id, action: 'portfolio.audit_requested', entity: 'client', entityId: actor.clientId ?? null,
     detail: { siteIds: [...siteIds], unitIds: body.unitIds, preferredFrom: body.preferredFrom, sentTo: to } })
   return { sentTo: to, siteCount: sites.length, unitCount: units.length }

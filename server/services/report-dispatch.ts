@@ -4,7 +4,7 @@ import type { Sequelize } from 'sequelize'
 import type { SendMailOptions } from 'nodemailer'
 import { z } from 'zod'
 import { logActivity } from './activity'
-import { sendMail } from './mail'
+import { recordSentMail, sendMail } from './mail'
 import { REPORT_CAUTION, REPORT_HAZARD, buildSiteReport, formatDay, reportFileName } from './report'
 import { StorageUnavailableError, deleteObject, getObjectBytes, putObject } from './storage'
 
@@ -135,6 +135,9 @@ async function recordFailure(db: Sequelize, m: MessageContext, error: string, no
   const failed = giveUp || attempts >= MAX_ATTEMPTS
   await db.query(`UPDATE report_dispatches SET attempts = :attempts, last_error = :error, status = :status, next_attempt_at = :next WHERE id = :id`,
     { replacements: { id: m.id, attempts, error, status: failed ? 'failed' : 'queued', next: new Date(now.getTime() + retryDelayMs(attempts)) } })
+  // The workspace's record of the message, if it has one yet, follows the dispatch.
+  await db.query(`UPDATE sent_mail SET status = :status, error = :error, updated_at = now() WHERE report_dispatch_id = :id`,
+    { replacements: { id: m.id, error, status: failed ? 'failed' : 'retrying' } })
   // The log notes when a report first misses its recipient and when it is given up, not every retry.
   if (failed || attempts === 1) {
     await logActivity({ workspaceId: m.workspaceId, userId: m.sentBy, action: failed ? 'report.failed' : 'report.queued', entity: 'site',
@@ -145,13 +148,20 @@ async function recordFailure(db: Sequelize, m: MessageContext, error: string, no
 
 async function attempt(db: Sequelize, m: MessageContext, pdf: Uint8Array, send: SendFn, now: Date): Promise<Outcome> {
   let messageId: string | null
+  const message = composeMessage(m, pdf)
+  // The workspace's record of the message: one per dispatch, updated on each attempt.
+  const origin = { workspaceId: m.workspaceId, causedBy: m.sentBy, kind: 'report' as const }
   try {
-    const info = await send(composeMessage(m, pdf))
+    const info = await send(message)
     messageId = info.messageId ?? null
   }
   catch (err) {
-    return recordFailure(db, m, describeError(err), now)
+    const error = describeError(err)
+    const outcome = await recordFailure(db, m, error, now)
+    await recordSentMail(db, origin, message, { status: outcome === 'failed' ? 'failed' : 'retrying', error, reportDispatchId: m.id })
+    return outcome
   }
+  await recordSentMail(db, origin, message, { status: 'sent', reportDispatchId: m.id })
   await db.query(`UPDATE report_dispatches SET status = 'sent', attempts = attempts + 1, sent_at = now(), message_id = :messageId, last_error = NULL
     WHERE id = :id`, { replacements: { id: m.id, messageId } })
   await logActivity({ workspaceId: m.workspaceId, userId: m.sentBy, action: 'report.sent', entity: 'site', entityId: m.siteId,

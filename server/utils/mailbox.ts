@@ -1,49 +1,18 @@
-import { QueryTypes } from 'sequelize'
-import { readdir, readFile, stat } from 'node:fs/promises'
-import { join } from 'node:path'
+import type { H3Event } from 'h3'
+import { z } from 'zod'
+import { listQuerySchema } from '#shared/schemas/common'
 
-// The local mail fake's folder of .eml files (MAIL_DIR); absent when a real SMTP relay is used.
-export function mailDir(): string {
-  const dir = process.env.MAIL_DIR
-  if (!dir) throw createError({ statusCode: 404, message: 'No local mailbox: mail goes to a real SMTP relay here' })
-  return dir
-}
+// The Mailbox exists only while the local mail fake is in use (MAIL_DIR set). It reads the record of the mail
+// this workspace caused (sent_mail), never the fake's folder, and never decides by the address a message went to.
 
-export function headerOf(raw: string, name: string) {
-  const head = raw.split(/\r?\n\r?\n/, 1)[0] ?? ''
-  const unfolded = head.replace(/\r?\n[ \t]+/g, ' ')
-  const line = unfolded.split(/\r?\n/).find(l => l.toLowerCase().startsWith(`${name.toLowerCase()}:`))
-  return line ? line.slice(name.length + 1).trim() : null
-}
+export const mailboxListQuery = listQuerySchema(['createdAt'], '-createdAt')
+export const mailAttachmentQuery = z.object({
+  index: z.coerce.number({ error: 'index must be a number' }).int().min(0, 'index starts at 0').max(20, 'index is at most 20').default(0),
+})
 
-/** Addresses that belong to a workspace: its people and its clients' report contacts. */
-export async function workspaceAddresses(workspaceId: number): Promise<Set<string>> {
-  const rows = await useDb().query<{ email: string }>(
-    `SELECT lower(email) AS email FROM users WHERE workspace_id = :ws UNION SELECT lower(report_email) FROM clients WHERE workspace_id = :ws`,
-    { type: QueryTypes.SELECT, replacements: { ws: workspaceId } })
-  return new Set(rows.map(r => r.email))
-}
-
-function addressedTo(raw: string, allowed: Set<string>) {
-  const to = (headerOf(raw, 'To') ?? '').toLowerCase()
-  return [...to.matchAll(/[^\s<>,"]+@[^\s<>,"]+/g)].some(m => allowed.has(m[0]))
-}
-
-/** The captured messages addressed to someone of this workspace, newest first; one workspace never sees another's. */
-export async function listMailbox(workspaceId: number) {
-  const dir = mailDir()
-  const allowed = await workspaceAddresses(workspaceId)
-  const names = (await readdir(dir)).filter(n => n.endsWith('.eml')).sort().reverse().slice(0, 500)
-  const items = await Promise.all(names.map(async (name) => {
-    const raw = await readFile(join(dir, name), 'utf8')
-    if (!addressedTo(raw, allowed)) return null
-    return { name, to: headerOf(raw, 'To'), subject: headerOf(raw, 'Subject'), date: headerOf(raw, 'Date'), sizeBytes: (await stat(join(dir, name))).size }
-  }))
-  return items.filter(i => i !== null)
-}
-
-export async function readMailboxMessage(workspaceId: number, name: string) {
-  const raw = await readFile(join(mailDir(), name), 'utf8').catch(() => null)
-  if (raw === null || !addressedTo(raw, await workspaceAddresses(workspaceId))) return null
-  return { name, to: headerOf(raw, 'To'), subject: headerOf(raw, 'Subject'), date: headerOf(raw, 'Date'), raw }
+/** The admin of a workspace that has a local mailbox; 404 when mail goes to a real relay. */
+export async function requireMailboxAdmin(event: H3Event) {
+  const admin = await requireRole(event, ['admin'])
+  if (!process.env.MAIL_DIR) throw createError({ statusCode: 404, message: 'No local mailbox: mail goes to a real SMTP relay here' })
+  return admin
 }

@@ -1,6 +1,8 @@
-// Admin-only view of the local mail fake, for development and demos.
+import { listSentMail } from '../../../services/mailbox'
+
+// The admin's view of the mail their own workspace caused, while the local mail fake is in use.
 export default defineEventHandler(async (event) => {
-  const admin = await requireRole(event, ['admin'])
-  const items = await listMailbox(admin.workspaceId)
-  return { items, total: items.length }
+  const admin = await requireMailboxAdmin(event)
+  const query = await getValidatedQuery(event, validateWith(mailboxListQuery))
+  return listSentMail(useDb(), admin.workspaceId, query)
 })
