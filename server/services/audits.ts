@@ -80,6 +80,8 @@ export async function markAuditItem(db: Sequelize, actor: Actor, audit: Audit, s
     await recordInspection(db, {
       workspaceId: audit.workspaceId, site, covering, kind: 'audit', inspectorId: actor.id, inspectedAt: new Date(),
       measurements: previous.record, notes: `Confirmed unchanged at audit against inspection #${previous.id}`, auditId: audit.id,
+      // Who measured, and when, stays with the measurements: a confirmation points at the visit that took them.
+      confirmsId: previous.confirmsId ?? previous.id,
     }, transaction)
     await db.query(`UPDATE audit_items SET status = 'confirmed' WHERE audit_id = :a AND covering_id = :c`, { transaction, replacements: { a: audit.id, c: body.coveringId } })
   })
