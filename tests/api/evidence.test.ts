@@ -1,9 +1,16 @@
+import { execFile } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
+import { rm, writeFile } from 'node:fs/promises'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { promisify } from 'node:util'
+import { parse } from 'csv-parse/sync'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type pg from 'pg'
 import { accounts, database, fixtureIds, signIn } from '../support/api'
 import type { ApiClient } from '../support/api'
 import { uploadPhoto } from '../support/photos'
+import { formatDay } from '../../server/services/report'
 
 // What the register says was measured, by whom and when, and why a verdict moved, must hold under use.
 
@@ -283,8 +290,69 @@ describe('removal is a recorded act', () => {
     expect(read.body.inspections).toHaveLength(1)
     const log = await db.query(`SELECT action FROM activity_log WHERE entity = 'covering' AND entity_id = $1`, [id])
     expect(log.rows.map(l => l.action)).toContain('covering.removed')
+    const csv = await officer.request('GET', `/api/sites/${ids.own.site}/audit.csv`, undefined, { accept: 'text/csv' })
+    const csvRows = parse(String(csv.body), { bom: true, columns: true }) as Array<Record<string, string>>
+    expect(csvRows.find(x => x.covering_ref === read.body.ref)).toMatchObject({ status: 'removed', removed_by: 'Dev Okonjo',
+      removal_reason: 'Chain-loop blind taken down; cordless cellular fitted', removed_on: new Date().toISOString().slice(0, 10), verdict: 'non_compliant' })
     const again = await officer.post(`/api/coverings/${id}/removal`, { reason: 'Twice' })
     expect(again.status).toBe(409)
     await expect(db.query(`UPDATE covering_removals SET reason = 'edited' WHERE id = $1`, [row.id])).rejects.toThrow(/evidence/)
+  })
+})
+
+describe('the deliverables tell who measured, who confirmed, what an audit could not reach, and what was removed', () => {
+  it('the landlord PDF and the audit CSV keep measured-by apart from confirmed-by, list not-accessible coverings with reasons, and removals', async () => {
+    const tag = Date.now().toString(36).toUpperCase()
+    const site = await admin.post('/api/sites', { clientId: ids.own.client, ref: `AUD-${tag}`, name: 'Quillon Terrace', address: '4 Quillon Terrace, Kellerton NSW 2999', jurisdiction: 'AU', premises: 'rental_home' })
+    expect(site.status, JSON.stringify(site.body)).toBe(201)
+    const unit = await admin.post('/api/units', { siteId: site.body.id, ref: '1' })
+    const make = async (n: number, room: string) => {
+      const opening = await admin.post('/api/openings', { unitId: unit.body.id, ref: `W${n}`, room })
+      return (await admin.post('/api/coverings', { openingId: opening.body.id, ref: `QT-${n}`, productType: 'roller', control: 'chain_loop', madeTo: 'custom', installedOn: '2025-05-01' })).body.id as number
+    }
+    const [confirmedId, remeasuredId, lockedId, removedId] = [await make(1, 'Living'), await make(2, 'Kitchen'), await make(3, 'Bedroom 1'), await make(4, 'Bedroom 2')]
+    const twoDaysAgo = hoursAgo(48)
+    for (const id of [confirmedId, remeasuredId, lockedId, removedId]) expect((await signOff(installer, id, { measurements: hanging, inspectedAt: twoDaysAgo })).status).toBe(201)
+    expect((await officer.post(`/api/coverings/${removedId}/removal`, { reason: 'Blind taken down by the owner; window left bare' })).status).toBe(201)
+
+    const audit = await officer.post(`/api/sites/${site.body.id}/audits`)
+    expect(audit.status).toBe(201)
+    expect((await officer.post(`/api/audits/${audit.body.id}/items`, { coveringId: confirmedId, status: 'confirmed' })).status).toBe(200)
+    expect((await signOff(officer, remeasuredId, { auditId: audit.body.id, measurements: { ...hanging, loopPullOutMm: 650 } })).status).toBe(201)
+    expect((await officer.post(`/api/audits/${audit.body.id}/items`, { coveringId: lockedId, status: 'not_accessible', reason: 'Tenant refused entry to the bedroom' })).status).toBe(200)
+    expect((await officer.post(`/api/audits/${audit.body.id}/close`, {})).status).toBe(200)
+
+    // The covering page says the same.
+    const page = await officer.get(`/api/coverings/${confirmedId}`)
+    expect(page.body.inspections[0]).toMatchObject({ kind: 'audit', inspectorName: 'Dev Okonjo', measuredByName: 'Sam Ferrow', measuredAt: new Date(twoDaysAgo).toISOString() })
+
+    const csv = await officer.request('GET', `/api/sites/${site.body.id}/audit.csv`, undefined, { accept: 'text/csv' })
+    const rows = parse(String(csv.body), { bom: true, columns: true }) as Array<Record<string, string>>
+    const byRef = Object.fromEntries(rows.map(r => [r.covering_ref, r]))
+    const measuredOn = twoDaysAgo.slice(0, 10)
+    const todayOn = new Date().toISOString().slice(0, 10)
+    expect(byRef['QT-1']).toMatchObject({ audit_id: String(audit.body.id), audit_outcome: 'confirmed_unchanged', measured_by: 'Sam Ferrow', measured_on: measuredOn,
+      confirmed_by: 'Dev Okonjo', confirmed_on: todayOn, loop_pull_out_mm: '600' })
+    expect(byRef['QT-2']).toMatchObject({ audit_outcome: 'measured', measured_by: 'Dev Okonjo', measured_on: todayOn, confirmed_by: '', loop_pull_out_mm: '650' })
+    expect(byRef['QT-3']).toMatchObject({ audit_outcome: 'not_accessible', audit_note: 'Tenant refused entry to the bedroom', measured_by: 'Sam Ferrow', confirmed_by: '' })
+    expect(byRef['QT-4']).toMatchObject({ status: 'removed', removed_by: 'Dev Okonjo', removal_reason: 'Blind taken down by the owner; window left bare', audit_id: '' })
+
+    const res = await fetch(`${process.env.TEST_BASE_URL}/api/sites/${site.body.id}/report.pdf`, { headers: { cookie: officer.cookie! } })
+    expect(res.status).toBe(200)
+    const file = join(tmpdir(), `tautline-audit-report-${tag}.pdf`)
+    await writeFile(file, new Uint8Array(await res.arrayBuffer()))
+    const text = (await promisify(execFile)('pdftotext', ['-enc', 'UTF-8', file, '-'])).stdout.replace(/\s+/g, ' ')
+    await rm(file, { force: true })
+    const day = (iso: string) => formatDay(iso.slice(0, 10))
+    expect(text).toContain(`Measured ${day(twoDaysAgo)} by Sam Ferrow; confirmed unchanged at audit ${day(todayOn)} by Dev Okonjo`)
+    expect(text).toContain(`Audit: measured ${day(todayOn)} by Dev Okonjo`)
+    expect(text).not.toMatch(/\(audit, Dev Okonjo\)/)
+    expect(text).toContain('1 covering re-measured, 1 confirmed unchanged')
+    expect(text).toContain('Not accessible at the audit')
+    expect(text).toContain('QT-3 (Unit 1, Bedroom 1): Tenant refused entry to the bedroom')
+    expect(text).toContain('Not accessible at audit')
+    expect(text).toContain('Removed in the register (no report has been sent before)')
+    expect(text).toContain('QT-4 (Unit 1, Bedroom 2), removed')
+    expect(text).toContain('Reason: Blind taken down by the owner; window left bare')
   })
 })
