@@ -48,6 +48,8 @@ export async function signOff(db: Sequelize, actor: Actor, site: Site, covering:
     const replay = await replayOf(actor, covering, body, hash)
     if (replay) return replay
   }
+  // A removed covering is out of service: its history stays as it was.
+  if (covering.status === 'removed') throw new SignOffRefusedError('status', 'status: this covering is recorded as removed; add the covering now in place and inspect that one')
   const changes = body.covering ?? {}
   const asChanged = { ...covering.get({ plain: true }), ...changes } as Covering
   // Measured values first: a wrong number is the first thing the installer must put right.

@@ -294,6 +294,9 @@ describe('removal is a recorded act', () => {
     const csvRows = parse(String(csv.body), { bom: true, columns: true }) as Array<Record<string, string>>
     expect(csvRows.find(x => x.covering_ref === read.body.ref)).toMatchObject({ status: 'removed', removed_by: 'Dev Okonjo',
       removal_reason: 'Chain-loop blind taken down; cordless cellular fitted', removed_on: new Date().toISOString().slice(0, 10), verdict: 'non_compliant' })
+    const visit = await signOff(installer, id, { measurements: putRight })
+    expect(visit.status).toBe(400)
+    expect(visit.body.message).toMatch(/^status: this covering is recorded as removed/)
     const again = await officer.post(`/api/coverings/${id}/removal`, { reason: 'Twice' })
     expect(again.status).toBe(409)
     await expect(db.query(`UPDATE covering_removals SET reason = 'edited' WHERE id = $1`, [row.id])).rejects.toThrow(/evidence/)
