@@ -4,7 +4,7 @@ import { Audit, Covering, Inspection } from '../models'
 import type { Site } from '../models'
 import type { Actor } from './scope'
 import { logActivity } from './activity'
-import { recordInspection } from './inspections'
+import { SignOffRefusedError, recordInspection } from './inspections'
 
 // A site audit walks every covering in place when it opens; each is measured again, confirmed
 // unchanged, or marked not accessible with a reason. Its state lives here, so any device resumes it.
@@ -84,6 +84,10 @@ export async function markAuditItem(db: Sequelize, actor: Actor, audit: Audit, s
       confirmsId: previous.confirmsId ?? previous.id,
     }, transaction)
     await db.query(`UPDATE audit_items SET status = 'confirmed' WHERE audit_id = :a AND covering_id = :c`, { transaction, replacements: { a: audit.id, c: body.coveringId } })
+  }).catch((err) => {
+    // A visit recorded meanwhile, dated later than now, cannot be confirmed from behind.
+    if (err instanceof SignOffRefusedError) throw new AuditRefusedError('coveringId', `coveringId: ${err.message}`, 409)
+    throw err
   })
 }
 

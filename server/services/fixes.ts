@@ -83,7 +83,9 @@ export type FixRow = RemedyRow
 export const fixSelect = `f.id, f.site_id AS "siteId", s.name AS "siteName", f.covering_id AS "coveringId", c.ref AS "coveringRef",
   u.ref AS "unitRef", o.room, f.clause, f.message, f.fix, f.source, f.priority, f.status, f.assignee_id AS "assigneeId",
   a.name AS "assigneeName", to_char(f.due_on, 'YYYY-MM-DD') AS "dueOn", (f.status = 'open' AND f.due_on < current_date) AS overdue,
-  f.closed_at AS "closedAt", f.closed_by_inspection_id AS "closedByInspectionId", f.created_at AS "createdAt"`
+  f.closed_at AS "closedAt", f.closed_by_inspection_id AS "closedByInspectionId",
+  (SELECT json_build_object('reason', r.reason, 'removedAt', r.removed_at) FROM covering_removals r WHERE r.id = f.closed_by_removal_id) AS "closedByRemoval",
+  f.created_at AS "createdAt"`
 export const fixFrom = `fixes f JOIN sites s ON s.id = f.site_id JOIN coverings c ON c.id = f.covering_id
   JOIN openings o ON o.id = c.opening_id JOIN units u ON u.id = o.unit_id LEFT JOIN users a ON a.id = f.assignee_id`
 

@@ -285,6 +285,8 @@ describe('removal is a recorded act', () => {
     expect(row).toMatchObject({ reason: 'Chain-loop blind taken down; cordless cellular fitted', photo_id: photo.id, replaced_by: replacement })
     const fixes = await db.query('SELECT status, closed_by_removal_id FROM fixes WHERE covering_id = $1', [id])
     expect(fixes.rows.every(f => f.status === 'closed' && f.closed_by_removal_id === row.id)).toBe(true)
+    const listed = await officer.get(`/api/fixes?coveringId=${id}&status=closed`)
+    expect(listed.body.items[0]).toMatchObject({ status: 'closed', closedByInspectionId: null, closedByRemoval: { reason: row.reason } })
     const read = await officer.get(`/api/coverings/${id}`)
     expect(read.body).toMatchObject({ status: 'removed', lastVerdict: 'non_compliant', removal: { reason: row.reason, removedByName: 'Dev Okonjo', replacedById: replacement } })
     expect(read.body.inspections).toHaveLength(1)
