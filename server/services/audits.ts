@@ -78,7 +78,7 @@ export async function markAuditItem(db: Sequelize, actor: Actor, audit: Audit, s
   if (!covering || !previous) throw new AuditRefusedError('coveringId', 'coveringId: this covering has never been measured, so there is nothing to confirm; measure it instead')
   await db.transaction(async (transaction) => {
     await recordInspection(db, {
-      workspaceId: audit.workspaceId, site, covering, kind: 'audit', inspectorId: actor.id, inspectedAt: new Date(),
+      workspaceId: audit.workspaceId, site, covering, kind: 'audit', inspectorId: actor.id, inspectedAt: null,
       measurements: previous.record, notes: `Confirmed unchanged at audit against inspection #${previous.id}`, auditId: audit.id,
       // Who measured, and when, stays with the measurements: a confirmation points at the visit that took them.
       confirmsId: previous.confirmsId ?? previous.id,

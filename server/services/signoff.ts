@@ -69,11 +69,12 @@ export async function signOff(db: Sequelize, actor: Actor, site: Site, covering:
     if (!audit) throw new SignOffRefusedError('auditId', 'auditId: that audit is not open on this covering\'s site')
     body = { ...body, kind: 'audit' }
   }
+  // Undated, the visit is dated as it is recorded; dated, it must fall between the bound and a few minutes ahead.
   const receivedAt = Date.now()
-  const inspectedAt = body.inspectedAt ? new Date(body.inspectedAt) : new Date(receivedAt)
-  if (inspectedAt.getTime() > receivedAt + 5 * 60_000) throw new SignOffRefusedError('inspectedAt', 'inspectedAt: a visit cannot be in the future')
+  const inspectedAt = body.inspectedAt ? new Date(body.inspectedAt) : null
+  if (inspectedAt && inspectedAt.getTime() > receivedAt + 5 * 60_000) throw new SignOffRefusedError('inspectedAt', 'inspectedAt: a visit cannot be in the future')
   const days = backdateLimitDays()
-  if (inspectedAt.getTime() < receivedAt - days * 86_400_000) {
+  if (inspectedAt && inspectedAt.getTime() < receivedAt - days * 86_400_000) {
     throw new SignOffRefusedError('inspectedAt', `inspectedAt: a visit may be dated at most ${days} days before it is sent; record older history through an import`)
   }
   const save = () => db.transaction(async (transaction) => {
