@@ -58,6 +58,7 @@ interface Row {
   siteId: number
   lastVerdict: string | null
   inspectionId: number
+  inspectedOn: string
   record: Record<string, unknown>
 }
 
@@ -96,7 +97,8 @@ export async function runRecheck(db: Sequelize, ctx: JobContext) {
   await db.transaction(async (transaction) => {
     let after = 0
     for (;;) {
-      const rows = await db.query<Row>(`SELECT c.id, c.site_id AS "siteId", c.last_verdict AS "lastVerdict", c.last_inspection_id AS "inspectionId", i.record
+      const rows = await db.query<Row>(`SELECT c.id, c.site_id AS "siteId", c.last_verdict AS "lastVerdict", c.last_inspection_id AS "inspectionId", i.record,
+          to_char(i.inspected_at AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS "inspectedOn"
         FROM ${from} JOIN inspections i ON i.id = c.last_inspection_id
         WHERE ${scope.sql} AND c.status = 'in_place' AND c.id > :after ORDER BY c.id LIMIT ${RECHECK_BATCH}`,
       { type: QueryTypes.SELECT, replacements: { ...scope.replacements, after }, transaction })
@@ -106,7 +108,8 @@ export async function runRecheck(db: Sequelize, ctx: JobContext) {
       for (const row of rows) {
         let result: ReturnType<typeof checkRecord>
         try {
-          result = checkRecord(recheckRecord(row), options)
+          // As of the inspection's day, as the inspection itself was checked: the same rule set gives the same verdict.
+          result = checkRecord(recheckRecord(row), { ...options, today: row.inspectedOn })
         }
         catch {
           // A register value the rulebook does not know (written around the API): reported, never guessed.
