@@ -107,10 +107,10 @@ export function useFittingSync() {
         return
       }
       const { body, control } = d.queued
-      if (control) await $fetch(`/api/coverings/${d.coveringId}`, { method: 'PATCH', body: { control } })
       const photoIds = d.photos.filter(x => x.state === 'stored' && x.id !== null).map(x => x.id!)
+      // One request: a control changed on site is saved with the visit, or (if the visit is refused) not at all.
       const saved = await $fetch<{ id: number, verdict: string, rulesVersion: string, replayed: boolean, result: SentSignOff['result'] }>(
-        `/api/coverings/${d.coveringId}/inspections`, { method: 'POST', body: { ...body, photoIds } })
+        `/api/coverings/${d.coveringId}/inspections`, { method: 'POST', body: { ...body, photoIds, ...(control ? { covering: { control } } : {}) } })
       store.sent[d.coveringId] = { inspectionId: saved.id, verdict: saved.verdict, rulesVersion: saved.rulesVersion, replayed: saved.replayed, auditId: body.auditId, result: saved.result }
       store.remove(d.key)
     }
@@ -125,7 +125,7 @@ export function useFittingSync() {
         d.state = 'editing'
         d.queued = null
         d.problem = read.message
-        d.serverErrors = Object.fromEntries(Object.entries(read.fields).map(([k, v]) => [k.replace(/^measurements\./, ''), v]))
+        d.serverErrors = Object.fromEntries(Object.entries(read.fields).map(([k, v]) => [k.replace(/^(measurements|covering)\./, ''), v]))
       }
     }
     finally {

@@ -101,6 +101,9 @@ export class Covering extends Model<InferAttributes<Covering>, InferCreationAttr
   declare lastInspectionId: CreationOptional<number | null>
   declare lastVerdict: CreationOptional<string | null>
   declare lastInspectedAt: CreationOptional<Date | null>
+  declare changedSinceInspection: CreationOptional<boolean>
+  declare changedFields: CreationOptional<string[]>
+  declare changedAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 }
@@ -122,6 +125,8 @@ export class Inspection extends Model<InferAttributes<Inspection>, InferCreation
   declare auditId: CreationOptional<number | null>
   declare importId: CreationOptional<number | null>
   declare sourceRow: CreationOptional<number | null>
+  declare bodySha256: CreationOptional<string | null>
+  declare confirmsId: CreationOptional<number | null>
   declare createdAt: CreationOptional<Date>
 }
 
@@ -202,6 +207,7 @@ export class Fix extends Model<InferAttributes<Fix>, InferCreationAttributes<Fix
   declare assigneeId: CreationOptional<number | null>
   declare dueOn: string
   declare closedByInspectionId: CreationOptional<number | null>
+  declare closedByRemovalId: CreationOptional<number | null>
   declare closedAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -271,10 +277,11 @@ export function initModels(sequelize: Sequelize) {
   Covering.init({ id: id(), siteId: int(), openingId: int(), ref: ref(), productType: ref(), control: ref(), madeTo: text(), mount: text(),
     fixing: text(), controlSide: text(), widthMm: int(), dropMm: int(), makerModel: text(), manufacturedOn: text(),
     installedOn: DataTypes.DATEONLY, status: text(), lastInspectionId: int(), lastVerdict: text(),
-    lastInspectedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'coverings' })
+    lastInspectedAt: DataTypes.DATE, changedSinceInspection: DataTypes.BOOLEAN, changedFields: DataTypes.ARRAY(DataTypes.TEXT), changedAt: DataTypes.DATE,
+    ...stamps() }, { ...base, tableName: 'coverings' })
   Inspection.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), inspectedAt: DataTypes.DATE,
     inspectorId: int(), record: DataTypes.JSONB, rulesVersion: ref(), verdict: ref(), notes: text(), correctsId: int(), clientKey: text(), auditId: int(),
-    importId: int(), sourceRow: int(), createdAt: DataTypes.DATE }, { ...base, tableName: 'inspections', updatedAt: false })
+    importId: int(), sourceRow: int(), bodySha256: text(), confirmsId: int(), createdAt: DataTypes.DATE }, { ...base, tableName: 'inspections', updatedAt: false })
   Finding.init({ id: id(), inspectionId: int(), clause: ref(), verdict: ref(), measured: text(), limitValue: text(), unit: text(),
     field: text(), source: ref(), basis: ref(), message: ref(), fix: text() }, { ...base, tableName: 'findings', timestamps: false })
   Photo.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), kind: ref(), objectKey: ref(), thumbKey: text(),
@@ -288,7 +295,7 @@ export function initModels(sequelize: Sequelize) {
   { ...base, tableName: 'audits' })
   Fix.init({ id: id(), workspaceId: int(), siteId: int(), coveringId: int(), clause: ref(), raisedByInspectionId: int(), message: ref(),
     fix: text(), source: ref(), priority: int(), status: text(), assigneeId: int(), dueOn: DataTypes.DATEONLY,
-    closedByInspectionId: int(), closedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'fixes' })
+    closedByInspectionId: int(), closedByRemovalId: int(), closedAt: DataTypes.DATE, ...stamps() }, { ...base, tableName: 'fixes' })
 
   Job.init({ id: id(), workspaceId: int(), clientId: int(), siteId: int(), kind: ref(), status: text(), params: DataTypes.JSONB,
     progressDone: int(), progressTotal: int(), counts: DataTypes.JSONB, error: text(), cancelRequested: DataTypes.BOOLEAN, attempts: int(),

@@ -4,7 +4,7 @@ import { Audit, Covering, Inspection } from '../models'
 import type { Site } from '../models'
 import type { Actor } from './scope'
 import { logActivity } from './activity'
-import { recordInspection } from './inspections'
+import { SignOffRefusedError, recordInspection } from './inspections'
 
 // A site audit walks every covering in place when it opens; each is measured again, confirmed
 // unchanged, or marked not accessible with a reason. Its state lives here, so any device resumes it.
@@ -78,10 +78,16 @@ export async function markAuditItem(db: Sequelize, actor: Actor, audit: Audit, s
   if (!covering || !previous) throw new AuditRefusedError('coveringId', 'coveringId: this covering has never been measured, so there is nothing to confirm; measure it instead')
   await db.transaction(async (transaction) => {
     await recordInspection(db, {
-      workspaceId: audit.workspaceId, site, covering, kind: 'audit', inspectorId: actor.id, inspectedAt: new Date(),
+      workspaceId: audit.workspaceId, site, covering, kind: 'audit', inspectorId: actor.id, inspectedAt: null,
       measurements: previous.record, notes: `Confirmed unchanged at audit against inspection #${previous.id}`, auditId: audit.id,
+      // Who measured, and when, stays with the measurements: a confirmation points at the visit that took them.
+      confirmsId: previous.confirmsId ?? previous.id,
     }, transaction)
     await db.query(`UPDATE audit_items SET status = 'confirmed' WHERE audit_id = :a AND covering_id = :c`, { transaction, replacements: { a: audit.id, c: body.coveringId } })
+  }).catch((err) => {
+    // A visit recorded meanwhile, dated later than now, cannot be confirmed from behind.
+    if (err instanceof SignOffRefusedError) throw new AuditRefusedError('coveringId', `coveringId: ${err.message}`, 409)
+    throw err
   })
 }
 

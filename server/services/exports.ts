@@ -59,7 +59,7 @@ class RowSink extends EventEmitter {
 export async function runExport(db: Sequelize, ctx: JobContext) {
   const p = ctx.job.params as unknown as Params
   const filter = p.scope === 'site' ? 'c.site_id = :id' : 's.client_id = :id'
-  const [total] = await db.query<{ n: number }>(`SELECT count(*)::int AS n FROM coverings c JOIN sites s ON s.id = c.site_id WHERE ${filter} AND c.status = 'in_place'`,
+  const [total] = await db.query<{ n: number }>(`SELECT count(*)::int AS n FROM coverings c JOIN sites s ON s.id = c.site_id WHERE ${filter}`,
     { type: QueryTypes.SELECT, replacements: { id: p.scopeId } })
   await ctx.checkpoint(0, {}, total!.n)
   const dir = await mkdtemp(join(tmpdir(), 'tautline-export-'))

@@ -9,7 +9,8 @@ import type { RemedyRow } from '../../shared/types/audit'
 import { logActivity } from './activity'
 
 // A remedy is the fix one failing clause calls for. It opens when an inspection fails the clause
-// and closes only when a later inspection of the same covering passes it and carries a photo.
+// and closes only when a later inspection of the same covering passes it and carries a decoded photo
+// (photoCount counts only photos whose pixel size was recorded), or when the covering is removed.
 
 const labelFields = new Set(['warningLabel', 'swingTag', 'installerLabel', 'manufacturerLabel'])
 const childPremises = new Set(['childcare', 'school'])
@@ -41,6 +42,12 @@ export async function applyInspectionToRemedies(db: Sequelize, args: {
 }, transaction: Transaction) {
   const { inspection, result, site } = args
   const open = await Fix.findAll({ where: { coveringId: inspection.coveringId, status: 'open' }, transaction })
+  // A remedy closes only through a visit later than the one that raised it.
+  const raisedRows = open.length
+    ? await db.query<{ id: number, at: Date }>(`SELECT f.id, i.inspected_at AS at FROM fixes f JOIN inspections i ON i.id = f.raised_by_inspection_id WHERE f.id IN (:ids)`,
+        { type: QueryTypes.SELECT, replacements: { ids: open.map(f => f.id) }, transaction })
+    : []
+  const raisedAt = new Map(raisedRows.map(r => [r.id, new Date(r.at)]))
   const openByClause = new Map(open.map(f => [f.clause, f]))
   const today = inspection.inspectedAt.toISOString().slice(0, 10)
   const raised: number[] = []
@@ -56,7 +63,8 @@ export async function applyInspectionToRemedies(db: Sequelize, args: {
       raised.push(fix.id)
     }
     const existing = openByClause.get(f.clause)
-    if (existing && (f.verdict === 'pass' || f.verdict === 'not_applicable') && args.photoCount > 0) {
+    const later = existing && inspection.inspectedAt > (raisedAt.get(existing.id) ?? inspection.inspectedAt)
+    if (existing && later && (f.verdict === 'pass' || f.verdict === 'not_applicable') && args.photoCount > 0) {
       await existing.update({ status: 'closed', closedByInspectionId: inspection.id, closedAt: new Date() }, { transaction })
       closed.push(existing.id)
     }
@@ -75,7 +83,9 @@ export type FixRow = RemedyRow
 export const fixSelect = `f.id, f.site_id AS "siteId", s.name AS "siteName", f.covering_id AS "coveringId", c.ref AS "coveringRef",
   u.ref AS "unitRef", o.room, f.clause, f.message, f.fix, f.source, f.priority, f.status, f.assignee_id AS "assigneeId",
   a.name AS "assigneeName", to_char(f.due_on, 'YYYY-MM-DD') AS "dueOn", (f.status = 'open' AND f.due_on < current_date) AS overdue,
-  f.closed_at AS "closedAt", f.closed_by_inspection_id AS "closedByInspectionId", f.created_at AS "createdAt"`
+  f.closed_at AS "closedAt", f.closed_by_inspection_id AS "closedByInspectionId",
+  (SELECT json_build_object('reason', r.reason, 'removedAt', r.removed_at) FROM covering_removals r WHERE r.id = f.closed_by_removal_id) AS "closedByRemoval",
+  f.created_at AS "createdAt"`
 export const fixFrom = `fixes f JOIN sites s ON s.id = f.site_id JOIN coverings c ON c.id = f.covering_id
   JOIN openings o ON o.id = c.opening_id JOIN units u ON u.id = o.unit_id LEFT JOIN users a ON a.id = f.assignee_id`
 

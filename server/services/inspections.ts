@@ -25,6 +25,16 @@ export function rulebookInput(site: Pick<Site, 'jurisdiction' | 'premises'>, cov
   }
 }
 
+export class SignOffRefusedError extends Error {
+  constructor(readonly field: string, message: string) { super(message) }
+}
+
+/** How many days before it reaches the server a visit may be dated (INSPECTION_BACKDATE_DAYS, default 14). */
+export function backdateLimitDays() {
+  const raw = Number.parseInt(process.env.INSPECTION_BACKDATE_DAYS ?? '', 10)
+  return Number.isFinite(raw) && raw >= 0 && raw <= 3650 ? raw : 14
+}
+
 export class RecordInvalidError extends Error {
   constructor(message: string, readonly fields: Record<string, string>) { super(message) }
 }
@@ -52,25 +62,39 @@ export async function recordInspection(db: Sequelize, args: {
   covering: Covering
   kind: InspectionKind
   inspectorId: number | null
-  inspectedAt: Date
+  /** When the visit happened; null dates it now, as it is recorded (inside the covering's lock, so in order). */
+  inspectedAt: Date | null
   measurements: Record<string, unknown>
   notes?: string | null
   correctsId?: number | null
   clientKey?: string | null
   photoIds?: number[]
+  /** The linked photos that count as evidence (decoded, pixel size recorded); defaults to none. */
+  countedPhotoIds?: number[]
   auditId?: number | null
+  bodySha256?: string | null
+  /** For an audit confirmation: the inspection whose measurements are confirmed unchanged. */
+  confirmsId?: number | null
+  /** Register fields the visit changed on the covering, for the activity log. */
+  registerChanges?: Record<string, unknown>
 }, outer?: Transaction): Promise<{ inspection: Inspection, result: CheckResult }> {
   const opening = await Opening.findByPk(args.covering.openingId, { attributes: ['childrensRoom'], transaction: outer })
   const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements, opening))
-  const result = checkRecord(record, { today: args.inspectedAt.toISOString().slice(0, 10) })
   const work = async (transaction: Transaction) => {
     // One sign-off at a time per covering: two at once would both see no open remedy for a clause and both
     // raise one, or both decide which inspection is the latest from what they read before either committed.
     const current = await Covering.findByPk(args.covering.id, { attributes: ['id', 'lastInspectedAt'], transaction, lock: transaction.LOCK.UPDATE })
+    // A visit is never dated before the covering's latest inspection: history is not rewritten from behind.
+    const inspectedAt = args.inspectedAt ?? new Date()
+    if (current?.lastInspectedAt && inspectedAt < current.lastInspectedAt) {
+      throw new SignOffRefusedError('inspectedAt', `inspectedAt: this covering was last inspected at ${current.lastInspectedAt.toISOString()}; a visit cannot be dated before that`)
+    }
+    const result = checkRecord(record, { today: inspectedAt.toISOString().slice(0, 10) })
     const inspection = await Inspection.create({
       workspaceId: args.workspaceId, siteId: args.site.id, coveringId: args.covering.id, kind: args.kind,
-      inspectedAt: args.inspectedAt, inspectorId: args.inspectorId, record: record as unknown as Record<string, unknown>,
+      inspectedAt, inspectorId: args.inspectorId, record: record as unknown as Record<string, unknown>,
       rulesVersion: result.rulesVersion, verdict: result.verdict, notes: args.notes ?? null, correctsId: args.correctsId ?? null, clientKey: args.clientKey ?? null, auditId: args.auditId ?? null,
+      bodySha256: args.bodySha256 ?? null, confirmsId: args.confirmsId ?? null,
     }, { transaction })
     await Finding.bulkCreate(result.findings.map(f => ({
       inspectionId: inspection.id, clause: f.clause, verdict: f.verdict, measured: asText(f.measured), limitValue: asText(f.limit),
@@ -87,15 +111,12 @@ export async function recordInspection(db: Sequelize, args: {
       { transaction, replacements: { inspection: inspection.id, by: args.inspectorId, audit: args.auditId, covering: args.covering.id } })
     }
     await applyInspectionToRemedies(db, { inspection, result, site: args.site, childrensRoom: record.childrensRoom === true,
-      photoCount: photoIds.length, actorId: args.inspectorId }, transaction)
-    const latest = current?.lastInspectedAt ?? null
-    const newer = latest && latest > args.inspectedAt
-    if (!newer) {
-      await Covering.update({ lastInspectionId: inspection.id, lastVerdict: result.verdict, lastInspectedAt: args.inspectedAt },
-        { where: { id: args.covering.id }, transaction })
-    }
+      photoCount: (args.countedPhotoIds ?? []).length, actorId: args.inspectorId }, transaction)
+    // The newest visit is the covering's current verdict, and it settles any register edit made since the last one.
+    await Covering.update({ lastInspectionId: inspection.id, lastVerdict: result.verdict, lastInspectedAt: inspectedAt,
+      changedSinceInspection: false, changedFields: [], changedAt: null }, { where: { id: args.covering.id }, transaction })
     await logActivity({ workspaceId: args.workspaceId, userId: args.inspectorId, action: `inspection.${args.kind}`, entity: 'covering', entityId: args.covering.id,
-      detail: { inspectionId: inspection.id, verdict: result.verdict, rulesVersion: result.rulesVersion } }, transaction)
+      detail: { inspectionId: inspection.id, verdict: result.verdict, rulesVersion: result.rulesVersion, ...(args.registerChanges ? { registerChanges: args.registerChanges } : {}) } }, transaction)
     return { inspection, result }
   }
   return outer ? work(outer) : db.transaction(work)

@@ -14,8 +14,9 @@ import { ruleSetFixture } from './rule-fixtures'
 import type { Actor } from './scope'
 
 // A re-check runs every measured covering of a site, client or workspace through the current rule sets.
-// It stores one check result per covering, pointing at the inspection whose measurements it used, and
-// moves the covering's current verdict; it never makes an inspection up.
+// It stores one check result per covering, pointing at the inspection whose record it used (as measured and
+// recorded then, never today's register row), and moves the covering's current verdict; it never makes an
+// inspection up.
 
 export const RECHECK_BATCH = 1000
 const recordKeys = Object.keys(coveringRecordSchema.shape) as Array<keyof CoveringRecord>
@@ -55,33 +56,20 @@ export function classifyChange(previous: string | null, verdict: string): CheckC
 interface Row {
   id: number
   siteId: number
-  ref: string
-  productType: string
-  control: string
-  madeTo: string | null
-  installedOn: string | null
-  manufacturedOn: string | null
   lastVerdict: string | null
   inspectionId: number
+  inspectedOn: string
   record: Record<string, unknown>
-  jurisdiction: string
-  premises: string
-  childrensRoom: boolean
 }
 
-/** The measurements of the last inspection with today's register data (a corrected date or premises counts). */
-export function recheckRecord(row: Row): CoveringRecord {
+/**
+ * The rulebook record exactly as the named inspection measured and recorded it: product, control, dates,
+ * premises and room included. Today's register row never enters it: an edit since then marks the covering
+ * for a new inspection instead.
+ */
+export function recheckRecord(row: Pick<Row, 'record'>): CoveringRecord {
   const r: Record<string, unknown> = {}
   for (const k of recordKeys) r[k] = row.record[k] ?? null
-  r.ref = row.ref
-  r.jurisdiction = row.jurisdiction
-  r.premises = row.premises
-  r.productType = row.productType
-  r.control = row.control
-  r.madeTo = row.madeTo
-  r.installedOn = row.installedOn
-  r.manufacturedOn = row.manufacturedOn
-  r.childrensRoom ??= row.childrensRoom
   return r as unknown as CoveringRecord
 }
 
@@ -109,10 +97,9 @@ export async function runRecheck(db: Sequelize, ctx: JobContext) {
   await db.transaction(async (transaction) => {
     let after = 0
     for (;;) {
-      const rows = await db.query<Row>(`SELECT c.id, c.site_id AS "siteId", c.ref, c.product_type AS "productType", c.control, c.made_to AS "madeTo",
-          to_char(c.installed_on, 'YYYY-MM-DD') AS "installedOn", c.manufactured_on AS "manufacturedOn", c.last_verdict AS "lastVerdict",
-          c.last_inspection_id AS "inspectionId", i.record, s.jurisdiction, s.premises, o.childrens_room AS "childrensRoom"
-        FROM ${from} JOIN openings o ON o.id = c.opening_id JOIN inspections i ON i.id = c.last_inspection_id
+      const rows = await db.query<Row>(`SELECT c.id, c.site_id AS "siteId", c.last_verdict AS "lastVerdict", c.last_inspection_id AS "inspectionId", i.record,
+          to_char(i.inspected_at AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS "inspectedOn"
+        FROM ${from} JOIN inspections i ON i.id = c.last_inspection_id
         WHERE ${scope.sql} AND c.status = 'in_place' AND c.id > :after ORDER BY c.id LIMIT ${RECHECK_BATCH}`,
       { type: QueryTypes.SELECT, replacements: { ...scope.replacements, after }, transaction })
       if (!rows.length) break
@@ -121,7 +108,8 @@ export async function runRecheck(db: Sequelize, ctx: JobContext) {
       for (const row of rows) {
         let result: ReturnType<typeof checkRecord>
         try {
-          result = checkRecord(recheckRecord(row), options)
+          // As of the inspection's day, as the inspection itself was checked: the same rule set gives the same verdict.
+          result = checkRecord(recheckRecord(row), { ...options, today: row.inspectedOn })
         }
         catch {
           // A register value the rulebook does not know (written around the API): reported, never guessed.

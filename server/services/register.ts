@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
 import type { ListResult } from '../../shared/schemas/common'
-import type { ClientRow, CoveringDetail, CoveringRow, FindingRow, InspectionRow, OpeningRow, SiteDetail, SiteRow, UnitRow } from '../../shared/types/register'
+import type { ClientRow, CoveringDetail, CoveringRemoval, CoveringRow, FindingRow, InspectionRow, OpeningRow, SiteDetail, SiteRow, UnitRow } from '../../shared/types/register'
 import { likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
 
@@ -87,7 +87,8 @@ export const coveringSelect = `c.id, c.site_id AS "siteId", s.name AS "siteName"
   c.control, c.made_to AS "madeTo", c.mount, c.fixing, c.control_side AS "controlSide", c.width_mm AS "widthMm",
   c.drop_mm AS "dropMm", c.maker_model AS "makerModel", c.manufactured_on AS "manufacturedOn",
   to_char(c.installed_on, 'YYYY-MM-DD') AS "installedOn", c.status, c.last_verdict AS "lastVerdict",
-  c.last_inspected_at AS "lastInspectedAt", c.last_inspection_id AS "lastInspectionId"`
+  c.last_inspected_at AS "lastInspectedAt", c.last_inspection_id AS "lastInspectionId",
+  c.changed_since_inspection AS "changedSinceInspection", c.changed_fields AS "changedFields", c.changed_at AS "changedAt"`
 export const coveringFrom = 'coverings c JOIN openings o ON o.id = c.opening_id JOIN units u ON u.id = o.unit_id JOIN sites s ON s.id = c.site_id'
 
 export function listCoverings(db: Sequelize, actor: Actor, p: Page & { siteId?: number, unitId?: number, openingId?: number, verdict?: string, control?: string }) {
@@ -117,11 +118,17 @@ export async function getCovering(db: Sequelize, actor: Actor, id: number): Prom
     FROM ${coveringFrom} WHERE c.id = :id AND ${scope.sql}`, { type: QueryTypes.SELECT, replacements: { ...scope.replacements, id } })
   if (!row) return null
   const inspections = await db.query<InspectionRow & { findings: FindingRow[] }>(`SELECT i.id, i.kind, i.inspected_at AS "inspectedAt",
-      us.name AS "inspectorName", i.rules_version AS "rulesVersion", i.verdict, i.notes, i.record,
+      us.name AS "inspectorName", i.rules_version AS "rulesVersion", i.verdict, i.notes, i.record, i.confirms_id AS "confirmsId",
+      CASE WHEN i.confirms_id IS NULL THEN us.name ELSE mu.name END AS "measuredByName", coalesce(m.inspected_at, i.inspected_at) AS "measuredAt",
       COALESCE((SELECT json_agg(json_build_object('clause', f.clause, 'verdict', f.verdict, 'measured', f.measured, 'limit', f.limit_value,
         'unit', f.unit, 'field', f.field, 'source', f.source, 'basis', f.basis, 'message', f.message, 'fix', f.fix) ORDER BY f.id)
         FROM findings f WHERE f.inspection_id = i.id), '[]') AS findings
     FROM inspections i LEFT JOIN users us ON us.id = i.inspector_id
+      LEFT JOIN inspections m ON m.id = i.confirms_id LEFT JOIN users mu ON mu.id = m.inspector_id
     WHERE i.covering_id = :id ORDER BY i.inspected_at DESC, i.id DESC LIMIT 50`, { type: QueryTypes.SELECT, replacements: { id } })
-  return { ...row, inspections }
+  const [removal] = await db.query<CoveringRemoval>(`SELECT r.id, r.removed_at AS "removedAt", ru.name AS "removedByName", r.reason, r.photo_id AS "photoId",
+      r.replaced_by AS "replacedById", rc.ref AS "replacedByRef"
+    FROM covering_removals r LEFT JOIN users ru ON ru.id = r.removed_by LEFT JOIN coverings rc ON rc.id = r.replaced_by
+    WHERE r.covering_id = :id`, { type: QueryTypes.SELECT, replacements: { id } })
+  return { ...row, inspections, removal: removal ?? null }
 }

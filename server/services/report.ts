@@ -42,7 +42,24 @@ export interface ReportCovering {
   verdict: VerdictKey
   inspectedOn: string | null
   inspectionKind: string | null
+  /** What the latest closed audit did with this covering, when it listed it. */
+  auditOutcome?: AuditOutcome | null
 }
+
+export type AuditOutcome = 'measured' | 'confirmed' | 'not_accessible' | 'pending'
+
+/** The latest closed audit of the site, covering by covering. */
+export interface ReportAudit {
+  id: number
+  closedOn: string | null
+  officerName: string | null
+  measured: number
+  confirmed: number
+  notAccessible: Array<{ ref: string, unitRef: string, room: string, reason: string }>
+}
+
+/** A covering taken out of service since the last report was sent (or ever, if none was). */
+export interface ReportRemoval { ref: string, unitRef: string, room: string, removedOn: string, removedBy: string | null, reason: string, replacedByRef: string | null, lastVerdict: VerdictKey }
 
 export interface ReportUnit { ref: string, name: string | null, floor: string | null, coverings: ReportCovering[] }
 
@@ -74,7 +91,13 @@ export interface FailedCovering {
   dropMm: number | null
   inspectedOn: string | null
   inspectionKind: string | null
-  inspectorName: string | null
+  /** Who took the measurements the verdict rests on, and when; for an audit confirmation, who confirmed them and when. */
+  measuredBy: string | null
+  measuredOn: string | null
+  confirmedBy: string | null
+  confirmedOn: string | null
+  /** Why the latest closed audit could not check this covering, if it could not. */
+  notAccessibleReason?: string | null
   rulesVersion: string | null
   findings: ReportFinding[]
   photos: ReportPhoto[]
@@ -91,6 +114,10 @@ export interface SiteReportData {
   summary: Record<VerdictKey, number> & { total: number, openRemedies: number, overdueRemedies: number }
   units: ReportUnit[]
   failures: FailedCovering[]
+  audit: ReportAudit | null
+  /** Coverings removed since `removalsSince` (the day the last report was sent; null: no report was sent). */
+  removals: ReportRemoval[]
+  removalsSince: string | null
   signOff: { officerName: string | null, closedOn: string | null }
 }
 
@@ -120,6 +147,8 @@ interface HeadRow {
   licenceNumber: string | null
   officerName: string | null
   closedOn: string | null
+  auditId: number | null
+  lastReportOn: string | null
   openRemedies: number
   overdueRemedies: number
 }
@@ -140,8 +169,13 @@ interface CoveringRow {
   inspectedOn: string | null
   inspectionKind: string | null
   rulesVersion: string | null
-  inspectorName: string | null
+  measuredBy: string | null
+  measuredOn: string | null
+  confirmedBy: string | null
+  confirmedOn: string | null
 }
+interface AuditItemRow { coveringId: number, status: AuditOutcome, reason: string | null }
+interface RemovalRow extends ReportRemoval { lastVerdict: VerdictKey }
 interface FindingRow {
   coveringId: number
   clause: string
@@ -176,14 +210,15 @@ export function loadSiteReport(db: Sequelize, siteId: number): Promise<SiteRepor
 /** The queries behind loadSiteReport; `onPhotos` hears the photo rows as soon as they arrive, before the rest. */
 async function querySiteReport(db: Sequelize, siteId: number, onPhotos?: (photos: PhotoRow[]) => void): Promise<SiteReportData> {
   const q = <T extends object>(sql: string) => db.query<T>(sql, { type: QueryTypes.SELECT, replacements: { siteId, max: PHOTOS_PER_COVERING } })
-  const [heads, coverings, findings, photos] = await Promise.all([
+  const [heads, coverings, findings, photos, auditItems, removals] = await Promise.all([
     q<HeadRow>(`SELECT s.id, s.workspace_id AS "workspaceId", s.ref, s.name, s.address, s.jurisdiction, s.premises,
         cl.name AS "clientName", cl.contact_name AS "contactName", cl.report_email AS "reportEmail",
         w.name AS "businessName", w.contact_phone AS "businessPhone", w.contact_email AS "businessEmail", w.address AS "businessAddress",
-        w.licence_number AS "licenceNumber", a.closed_by_name AS "officerName",
-        to_char(a.closed_at AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS "closedOn", r.open AS "openRemedies", r.overdue AS "overdueRemedies"
+        w.licence_number AS "licenceNumber", a.closed_by_name AS "officerName", a.id AS "auditId",
+        to_char(a.closed_at AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS "closedOn", r.open AS "openRemedies", r.overdue AS "overdueRemedies",
+        (SELECT to_char(max(d.created_at) AT TIME ZONE 'UTC', 'YYYY-MM-DD') FROM report_dispatches d WHERE d.site_id = s.id AND d.status <> 'failed') AS "lastReportOn"
       FROM sites s JOIN clients cl ON cl.id = s.client_id JOIN workspaces w ON w.id = s.workspace_id
-      LEFT JOIN LATERAL (SELECT closed_by_name, closed_at FROM audits WHERE site_id = s.id AND status = 'closed'
+      LEFT JOIN LATERAL (SELECT id, closed_by_name, closed_at FROM audits WHERE site_id = s.id AND status = 'closed'
         ORDER BY closed_at DESC, id DESC LIMIT 1) a ON true
       CROSS JOIN LATERAL (SELECT count(*) FILTER (WHERE status = 'open')::int AS open,
         count(*) FILTER (WHERE status = 'open' AND due_on < current_date)::int AS overdue FROM fixes WHERE site_id = s.id) r
@@ -191,9 +226,14 @@ async function querySiteReport(db: Sequelize, siteId: number, onPhotos?: (photos
     q<CoveringRow>(`SELECT c.id, c.ref, o.ref AS "openingRef", o.room, o.childrens_room AS "childrensRoom", c.product_type AS "productType",
         c.control, c.width_mm AS "widthMm", c.drop_mm AS "dropMm", c.last_verdict AS verdict, u.ref AS "unitRef", u.name AS "unitName",
         u.floor, to_char(i.inspected_at AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS "inspectedOn", i.kind AS "inspectionKind",
-        i.rules_version AS "rulesVersion", p.name AS "inspectorName"
+        i.rules_version AS "rulesVersion",
+        CASE WHEN i.confirms_id IS NULL THEN p.name ELSE mp.name END AS "measuredBy",
+        to_char(coalesce(m.inspected_at, i.inspected_at) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS "measuredOn",
+        CASE WHEN i.confirms_id IS NOT NULL THEN p.name END AS "confirmedBy",
+        CASE WHEN i.confirms_id IS NOT NULL THEN to_char(i.inspected_at AT TIME ZONE 'UTC', 'YYYY-MM-DD') END AS "confirmedOn"
       FROM coverings c JOIN openings o ON o.id = c.opening_id JOIN units u ON u.id = o.unit_id
       LEFT JOIN inspections i ON i.id = c.last_inspection_id LEFT JOIN users p ON p.id = i.inspector_id
+      LEFT JOIN inspections m ON m.id = i.confirms_id LEFT JOIN users mp ON mp.id = m.inspector_id
       WHERE c.site_id = :siteId AND c.status = 'in_place'`),
     q<FindingRow>(`SELECT c.id AS "coveringId", f.clause, f.verdict, f.measured, f.limit_value AS "limit", f.unit, f.source, f.basis,
         f.message, f.fix, x.priority, to_char(x.due_on, 'YYYY-MM-DD') AS "dueOn", x.due_on < current_date AS overdue
@@ -214,6 +254,15 @@ async function querySiteReport(db: Sequelize, siteId: number, onPhotos?: (photos
       onPhotos?.(rows)
       return rows
     }),
+    // The latest closed audit's outcome for each covering it listed.
+    q<AuditItemRow>(`SELECT ai.covering_id AS "coveringId", ai.status, ai.reason FROM audit_items ai
+      WHERE ai.audit_id = (SELECT id FROM audits WHERE site_id = :siteId AND status = 'closed' ORDER BY closed_at DESC, id DESC LIMIT 1)`),
+    q<RemovalRow>(`SELECT c.ref, u.ref AS "unitRef", o.room, to_char(r.removed_at AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS "removedOn", ru.name AS "removedBy",
+        r.reason, rc.ref AS "replacedByRef", coalesce(c.last_verdict, 'not_checked') AS "lastVerdict"
+      FROM covering_removals r JOIN coverings c ON c.id = r.covering_id JOIN openings o ON o.id = c.opening_id JOIN units u ON u.id = o.unit_id
+      LEFT JOIN users ru ON ru.id = r.removed_by LEFT JOIN coverings rc ON rc.id = r.replaced_by
+      WHERE c.site_id = :siteId AND r.removed_at > coalesce((SELECT max(d.created_at) FROM report_dispatches d WHERE d.site_id = :siteId AND d.status <> 'failed'), '-infinity')
+      ORDER BY r.removed_at, r.id`),
     // Fonts are read here, so that drawing does no file I/O.
     preloadFonts(),
   ])
@@ -225,6 +274,7 @@ async function querySiteReport(db: Sequelize, siteId: number, onPhotos?: (photos
     openRemedies: head.openRemedies, overdueRemedies: head.overdueRemedies }
   const units: ReportUnit[] = []
   const versions = new Map<string, number>()
+  const outcomes = new Map(auditItems.map(a => [a.coveringId, a]))
   for (const c of coverings) {
     const verdict: VerdictKey = c.verdict ?? 'not_checked'
     summary[verdict]++
@@ -232,15 +282,17 @@ async function querySiteReport(db: Sequelize, siteId: number, onPhotos?: (photos
     let unit = units[units.length - 1]
     if (!unit || unit.ref !== c.unitRef) units.push(unit = { ref: c.unitRef, name: c.unitName, floor: c.floor, coverings: [] })
     unit.coverings.push({ id: c.id, ref: c.ref, openingRef: c.openingRef, room: c.room, childrensRoom: c.childrensRoom, productType: c.productType,
-      control: c.control, widthMm: c.widthMm, dropMm: c.dropMm, verdict, inspectedOn: c.inspectedOn, inspectionKind: c.inspectionKind })
+      control: c.control, widthMm: c.widthMm, dropMm: c.dropMm, verdict, inspectedOn: c.inspectedOn, inspectionKind: c.inspectionKind,
+      auditOutcome: outcomes.get(c.id)?.status ?? null })
   }
 
   const findingsBy = groupBy(findings, f => f.coveringId)
   const photosBy = groupBy(photos, p => p.coveringId)
   const failures: FailedCovering[] = coverings.filter(c => c.verdict === 'non_compliant').map(c => ({
     id: c.id, ref: c.ref, unitRef: c.unitRef, room: c.room, childrensRoom: c.childrensRoom, productType: c.productType, control: c.control,
-    widthMm: c.widthMm, dropMm: c.dropMm, inspectedOn: c.inspectedOn, inspectionKind: c.inspectionKind, inspectorName: c.inspectorName,
-    rulesVersion: c.rulesVersion,
+    widthMm: c.widthMm, dropMm: c.dropMm, inspectedOn: c.inspectedOn, inspectionKind: c.inspectionKind,
+    measuredBy: c.measuredBy, measuredOn: c.measuredOn, confirmedBy: c.confirmedBy, confirmedOn: c.confirmedOn, rulesVersion: c.rulesVersion,
+    notAccessibleReason: outcomes.get(c.id)?.status === 'not_accessible' ? outcomes.get(c.id)!.reason : null,
     findings: (findingsBy.get(c.id) ?? []).map(f => ({
       clause: f.clause, title: clauseTitles.get(f.clause) ?? null, verdict: f.verdict, measured: f.measured, limit: f.limit, unit: f.unit,
       source: f.source, basis: f.basis, message: f.message, fix: f.fix,
@@ -267,6 +319,17 @@ async function querySiteReport(db: Sequelize, siteId: number, onPhotos?: (photos
     summary,
     units,
     failures,
+    audit: head.auditId
+      ? {
+          id: head.auditId, closedOn: head.closedOn, officerName: head.officerName,
+          measured: auditItems.filter(a => a.status === 'measured').length,
+          confirmed: auditItems.filter(a => a.status === 'confirmed').length,
+          notAccessible: coverings.filter(c => outcomes.get(c.id)?.status === 'not_accessible')
+            .map(c => ({ ref: c.ref, unitRef: c.unitRef, room: c.room, reason: outcomes.get(c.id)!.reason ?? '' })),
+        }
+      : null,
+    removals,
+    removalsSince: head.lastReportOn,
     signOff: { officerName: head.officerName, closedOn: head.closedOn },
   }
 }
@@ -360,6 +423,7 @@ const sentence = (code: string) => {
 }
 const productWords: Record<string, string> = { venetian: 'Venetian', cellular: 'Cellular' }
 const controlWords: Record<string, string> = { chain_loop: 'Chain loop', cord_loop: 'Cord loop', free_cord: 'Free cord', wand: 'Wand', motorised: 'Motorised', cordless: 'Cordless' }
+const auditWords: Record<AuditOutcome, string> = { measured: 'Re-measured at audit', confirmed: 'Confirmed at audit', not_accessible: 'Not accessible at audit', pending: 'Not reached at audit' }
 const kindWords: Record<string, string> = { fitting: 'Fitting', audit: 'Audit', import: 'Import', correction: 'Correction' }
 const photoKindWords: Record<string, string> = { whole: 'Whole covering', tension_device: 'Tension device', cleat: 'Cleat', labels: 'Labels', defect: 'Defect' }
 const basisWords: Record<string, string> = {
@@ -630,10 +694,12 @@ async function drawReport(source: SiteReportData, thumbnails: Promise<Map<number
       images.set(photo.id, bytes ? await doc.embedJpg(bytes).catch(() => null) : null)
     }
   }
+  const auditPage = drawAuditAndRemovals(flow, pen, data)
   const detailsPage = drawFailures(flow, pen, data, images)
   const closingPage = drawClosing(flow, pen, data)
   contents([
     ['Coverings by unit', tablesPage],
+    ['Latest audit and removals', auditPage],
     ['Non-compliant coverings in detail', detailsPage],
     ['Scope, caution and sign-off', closingPage],
   ])
@@ -873,8 +939,9 @@ async function drawUnitTables(flow: Flow, pen: Pen, data: SiteReportData): Promi
       const room = pen.wrap(cv.childrensRoom ? `${cv.room} (child's room)` : cv.room, cell, cols[1]!.width - 2 * pad, 3)
       const productLines = pen.wrap(product(cv.productType), cell, cols[2]!.width - 2 * pad, 2)
       const controlLines = pen.wrap(control(cv.control), cell, cols[3]!.width - 2 * pad, 2)
-      const lines = Math.max(refLines.length, room.length, productLines.length, controlLines.length)
-      return { cv, refLines, room, productLines, controlLines, height: lines * lineHeight + 2 * pad + 1 }
+      const audit = cv.auditOutcome ? auditWords[cv.auditOutcome] : null
+      const lines = Math.max(refLines.length, room.length, productLines.length, controlLines.length, audit ? 2 : 1)
+      return { cv, refLines, room, productLines, controlLines, audit, height: lines * lineHeight + 2 * pad + 1 }
     })
     flow.y -= 6
     flow.ensure(unitBarHeight + headerHeight + (rows[0]?.height ?? 0))
@@ -919,10 +986,64 @@ async function drawUnitTables(flow: Flow, pen: Pen, data: SiteReportData): Promi
         const kind = pen.truncate(kindWords[cv.inspectionKind] ?? sentence(cv.inspectionKind), { size: 7.5 }, inspectedX + cols[6]!.width - 2 * pad - kindX)
         pen.draw(page, kind, kindX, base, { size: 7.5, color: c.stone })
       }
+      if (row.audit) {
+        const notSeen = cv.auditOutcome === 'not_accessible'
+        pen.draw(page, pen.truncate(row.audit, { size: 7.5, weight: notSeen ? 'bold' : 'regular' }, cols[6]!.width - 2 * pad), inspectedX, base - lineHeight,
+          { size: 7.5, weight: notSeen ? 'bold' : 'regular', color: notSeen ? verdictColours.incomplete : c.stone })
+      }
       flow.y -= row.height
     })
     flow.y -= 8
   }
+  return first
+}
+
+// ---------------------------------------------------------------------------------------------
+// The latest audit's outcome (what it measured, confirmed, and could not reach, and why) and the coverings
+// removed since the last report, so none leaves the landlord's view unexplained.
+
+function drawAuditAndRemovals(flow: Flow, pen: Pen, data: SiteReportData): number {
+  const text = { size: 9 }
+  const bullet = (lines: string[], bold = false) => {
+    flow.ensure(lines.length * 12 + 4)
+    flow.page.drawCircle({ x: flow.left + 4, y: flow.y + 3, size: 1.6, color: c.stone })
+    lines.forEach((line, n) => pen.draw(flow.page, line, flow.left + 12, flow.y - n * 12, { size: 9, weight: bold && n === 0 ? 'bold' : 'regular' }))
+    flow.y -= lines.length * 12 + 4
+  }
+  flow.ensure(120)
+  flow.y -= 10
+  const first = flow.pages.length
+  flow.y = sectionTitle(flow.page, pen, 'Latest audit and removals', flow.left, flow.y, 14)
+  const a = data.audit
+  const summary = a
+    ? `The latest site audit, closed ${formatDay(a.closedOn, true)}${a.officerName ? ` by ${a.officerName}` : ''}: ${a.measured} ${a.measured === 1 ? 'covering' : 'coverings'} re-measured, ${a.confirmed} confirmed unchanged against an earlier measurement (whose date and measurer are shown with each covering), and ${a.notAccessible.length} not accessible.`
+    : 'No site audit has been closed in the register. Each covering\'s verdict rests on its latest inspection, shown in the table above.'
+  for (const line of pen.wrap(summary, text, flow.width)) {
+    flow.ensure(14)
+    pen.draw(flow.page, line, flow.left, flow.y, text)
+    flow.y -= 12
+  }
+  flow.y -= 6
+  if (a?.notAccessible.length) {
+    flow.ensure(40)
+    pen.draw(flow.page, 'Not accessible at the audit: not checked then, their verdict is from an earlier inspection', flow.left, flow.y, { size: 9.5, weight: 'bold', color: verdictColours.incomplete })
+    flow.y -= 15
+    for (const n of a.notAccessible) bullet(pen.wrap(`${n.ref} (Unit ${n.unitRef}, ${n.room}): ${n.reason}`, text, flow.width - 12))
+    flow.y -= 6
+  }
+  flow.ensure(40)
+  const since = data.removalsSince ? `since the last report (${formatDay(data.removalsSince, true)})` : 'in the register (no report has been sent before)'
+  pen.draw(flow.page, `Removed ${since}`, flow.left, flow.y, { size: 9.5, weight: 'bold', color: c.spruce })
+  flow.y -= 15
+  if (!data.removals.length) {
+    pen.draw(flow.page, 'No covering was removed.', flow.left, flow.y, text)
+    flow.y -= 16
+  }
+  for (const r of data.removals) {
+    const head = `${r.ref} (Unit ${r.unitRef}, ${r.room}), removed ${formatDay(r.removedOn)}${r.removedBy ? ` by ${r.removedBy}` : ''}; last verdict ${verdictWords[r.lastVerdict].toLowerCase()}${r.replacedByRef ? `; replaced by ${r.replacedByRef}` : ''}`
+    bullet([...pen.wrap(head, text, flow.width - 12), ...pen.wrap(`Reason: ${r.reason}`, text, flow.width - 12)])
+  }
+  flow.y -= 8
   return first
 }
 
@@ -1060,11 +1181,16 @@ function drawFailures(flow: Flow, pen: Pen, data: SiteReportData, images: Map<nu
     const pill = verdictWords.non_compliant
     const pillW = pen.width(pill, { size: 8, weight: 'bold' }) + 14
     const where = `Unit ${failure.unitRef}  ·  ${failure.room}${failure.childrensRoom ? ' (child\'s room)' : ''}`
-    const inspected = failure.inspectedOn
-      ? `Last inspection ${formatDay(failure.inspectedOn)} (${(kindWords[failure.inspectionKind ?? ''] ?? 'inspection').toLowerCase()}${failure.inspectorName ? `, ${failure.inspectorName}` : ''})`
-      : 'Not inspected'
+    // Who measured, and when, is kept apart from who later confirmed the measurements unchanged at an audit.
+    const measured = `${kindWords[failure.inspectionKind ?? ''] && !failure.confirmedOn ? `${kindWords[failure.inspectionKind ?? '']}: measured` : 'Measured'} ${formatDay(failure.measuredOn)}${failure.measuredBy ? ` by ${failure.measuredBy}` : ''}`
+    const inspected = !failure.inspectedOn
+      ? 'Not inspected'
+      : failure.confirmedOn
+        ? `${measured}; confirmed unchanged at audit ${formatDay(failure.confirmedOn)}${failure.confirmedBy ? ` by ${failure.confirmedBy}` : ''}`
+        : measured
     const meta = pen.wrap([`${product(failure.productType)}, ${control(failure.control).toLowerCase()}`, `${sizeMm(failure.widthMm, failure.dropMm)} mm`, inspected,
-      failure.rulesVersion ? `rules ${failure.rulesVersion}` : null].filter(Boolean).join('   ·   '), { size: 8 }, width - 24, 2)
+      failure.rulesVersion ? `rules ${failure.rulesVersion}` : null, failure.notAccessibleReason ? `not accessible at the latest audit: ${failure.notAccessibleReason}` : null]
+      .filter(Boolean).join('   ·   '), { size: 8 }, width - 24, 4)
     const headingRoom = width - 24 - pillW - 12
     const refWidth = pen.width(`${failure.ref} (continued)`, { size: 11.5, weight: 'bold' })
     const whereBeside = refWidth + 10 + pen.width(where, { size: 9 }) <= headingRoom

@@ -87,7 +87,8 @@ export const coveringCreateSchema = z.object({
   installedOn: z.iso.date({ error: 'installedOn is a date, YYYY-MM-DD' }).nullish().transform(v => v ?? null),
 })
 export const coveringPatchSchema = someFieldOf(coveringCreateSchema.omit({ openingId: true }).partial().extend({
-  status: z.enum(['in_place', 'removed'], { error: 'status must be in_place or removed' }).optional(),
+  // Removal is a recorded act with a reason (POST /api/coverings/:id/removal); a PATCH never changes status.
+  status: z.never({ error: 'status: remove or replace a covering through its removal (an officer records who, when and why)' }).optional(),
 }))
 export const coveringListQuery = listQuerySchema(['ref', 'productType', 'control', 'lastVerdict', 'lastInspectedAt'], 'ref').extend({
   siteId: idOf('siteId').optional(),

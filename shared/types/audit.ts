@@ -19,5 +19,7 @@ export interface RemedyRow {
   overdue: boolean
   closedAt: string | null
   closedByInspectionId: number | null
+  /** Set when the remedy closed because the covering was removed (a recorded removal, with its reason). */
+  closedByRemoval: { reason: string, removedAt: string } | null
   createdAt: string
 }

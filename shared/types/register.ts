@@ -86,6 +86,11 @@ export interface CoveringRow {
   lastVerdict: Verdict | null
   lastInspectedAt: string | null
   lastInspectionId: number | null
+  /** A field the rules read was edited after the last inspection: the verdict shown is the last inspected one. */
+  changedSinceInspection: boolean
+  /** Which fields, as `entity.field` (covering.control, opening.childrensRoom, site.premises…). */
+  changedFields: string[]
+  changedAt: string | null
 }
 
 export interface FindingRow {
@@ -111,12 +116,28 @@ export interface InspectionRow {
   notes: string | null
   record: Record<string, unknown>
   findings: FindingRow[]
+  /** For an audit confirmation: the inspection whose measurements were confirmed unchanged. */
+  confirmsId: number | null
+  /** Who took the measurements this record holds, and when (the confirmed inspection's, for a confirmation). */
+  measuredByName: string | null
+  measuredAt: string
+}
+
+export interface CoveringRemoval {
+  id: number
+  removedAt: string
+  removedByName: string | null
+  reason: string
+  photoId: number | null
+  replacedById: number | null
+  replacedByRef: string | null
 }
 
 export interface CoveringDetail extends CoveringRow {
   clientId: number
   childrensRoom: boolean
   inspections: InspectionRow[]
+  removal: CoveringRemoval | null
 }
 
 export interface ActivityRow {

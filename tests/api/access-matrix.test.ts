@@ -62,6 +62,7 @@ const policies: Record<string, Policy> = {
   'GET /api/coverings/:id/photos': { roles: everyone, param: 'covering' },
   'POST /api/coverings/:id/photos': { roles: staff, param: 'covering' },
   'POST /api/coverings/:id/inspections': { roles: staff, param: 'covering', body: { measurements: {} } },
+  'POST /api/coverings/:id/removal': { roles: office, param: 'covering' },
   'GET /api/photos/:id': { roles: everyone, param: 'photo' },
   'GET /api/photos/:id/thumb': { roles: everyone, param: 'photo' },
   'GET /api/sites/:id/overview': { roles: everyone, param: 'site' },

@@ -141,9 +141,26 @@ describe('the audit CSV', () => {
     expect(res.status).toBe(200)
     expect(res.headers.get('content-type')).toMatch(/text\/csv; charset=utf-8/)
     const rows = parse(await res.text(), { bom: true, columns: true }) as Array<Record<string, string>>
-    const inPlace = (await db.query(`SELECT count(*)::int AS n FROM coverings WHERE site_id = $1 AND status = 'in_place'`, [cob])).rows[0].n
-    expect(rows).toHaveLength(inPlace)
-    expect(Object.keys(rows[0]!)).toEqual(expect.arrayContaining(['site_ref', 'unit_ref', 'unit_name', 'room', 'covering_ref', 'loop_pull_out_mm', 'verdict', 'failed_clauses', 'rules_version', 'photo_count']))
+    // Every covering the site has had: a removed one stays, with its status and removal.
+    const all = (await db.query(`SELECT count(*)::int AS n FROM coverings WHERE site_id = $1`, [cob])).rows[0].n
+    expect(rows).toHaveLength(all)
+    expect(Object.keys(rows[0]!)).toEqual(expect.arrayContaining(['site_ref', 'unit_ref', 'unit_name', 'room', 'covering_ref', 'status', 'removed_on', 'removed_by', 'removal_reason',
+      'loop_pull_out_mm', 'verdict', 'failed_clauses', 'rules_version', 'photo_count', 'audit_id', 'audit_outcome', 'audit_note', 'measured_by', 'measured_on', 'confirmed_by', 'confirmed_on']))
+    expect(Object.keys(rows[0]!)).not.toContain('inspector')
+    // The closed audit above: who measured stays named apart from the officer who confirmed.
+    const confirmed = rows.filter(r => r.audit_outcome === 'confirmed_unchanged')
+    expect(confirmed.length).toBeGreaterThan(0)
+    for (const r of confirmed) {
+      expect(r).toMatchObject({ confirmed_by: 'Dev Okonjo', last_inspection_kind: 'audit' })
+      expect(r.measured_by).toBeTruthy()
+      expect(r.measured_by).not.toBe('Dev Okonjo')
+      expect(r.measured_on! < r.confirmed_on!).toBe(true)
+    }
+    const measuredRow = rows.find(r => r.covering_ref === 'COB-2-01')!
+    expect(measuredRow).toMatchObject({ audit_outcome: 'measured', measured_by: 'Dev Okonjo', confirmed_by: '', confirmed_on: '' })
+    const locked = rows.find(r => r.covering_ref === 'COB-3-01')!
+    expect(locked).toMatchObject({ audit_outcome: 'not_accessible', audit_note: 'Tenant away; flat locked' })
+    expect(new Set(rows.map(r => r.audit_id)).size).toBe(1)
     const named = rows.filter(r => r.unit_name!.includes('HYPERLINK'))
     expect(named.length).toBeGreaterThan(0)
     for (const r of named) expect(r.unit_name).toBe(`'=HYPERLINK("x")`)

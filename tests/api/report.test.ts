@@ -356,6 +356,9 @@ describe('report layout', () => {
     summary: { compliant: n, non_compliant: 0, incomplete: 0, not_applicable: 0, not_checked: 0, total: n, openRemedies: 0, overdueRemedies: 0 },
     units: [{ ref: 'B1', name: 'Block 1', floor: null, coverings: Array.from({ length: n }, (_, i) => covering(i + 1)) }],
     failures: [],
+    audit: null,
+    removals: [],
+    removalsSince: null,
     signOff: { officerName: 'Ada Officer', closedOn: '2026-11-30' },
   })
 

@@ -3,7 +3,7 @@ import { GetObjectCommand, S3Client } from '@aws-sdk/client-s3'
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { accounts, database } from '../support/api'
+import { accounts, database, signIn } from '../support/api'
 import { launch, newPage, phone, seriousViolations, signInThroughPage } from '../support/browser'
 
 const s3 = new S3Client({
@@ -143,6 +143,38 @@ describe('recording a fitting on a phone', () => {
     }
     finally {
       await context.close()
+    }
+  })
+
+  it('signs off a control changed on site in one request: the covering changes with the visit, never before it', async () => {
+    const db = await database()
+    const admin = await signIn(accounts.admin)
+    const tag = Date.now().toString(36).toUpperCase()
+    const siteId = Number((await db.query(`SELECT id FROM sites WHERE ref = 'WAT'`)).rows[0].id)
+    const unit = await admin.post('/api/units', { siteId, ref: `CTL-${tag}` })
+    const opening = await admin.post('/api/openings', { unitId: unit.body.id, ref: 'W1', room: 'Living' })
+    const covering = await admin.post('/api/coverings', { openingId: opening.body.id, ref: `CTL-${tag}-1`, productType: 'roller', control: 'chain_loop' })
+    const { context, page } = await newPage(browser, phone)
+    const writes: Array<{ method: string, url: string, body: string | null }> = []
+    page.on('request', (r) => {
+      if (r.url().includes('/api/coverings/') && r.method() !== 'GET') writes.push({ method: r.method(), url: r.url(), body: r.postData() })
+    })
+    try {
+      await signInThroughPage(page, accounts.installer)
+      await page.goto(`/coverings/${covering.body.id}/fitting`)
+      await page.getByRole('heading', { level: 1, name: `Fitting CTL-${tag}-1` }).waitFor()
+      await page.getByRole('group', { name: 'Control' }).getByText('Motorised', { exact: true }).click()
+      await page.getByRole('button', { name: 'Sign off this fitting' }).click()
+      await page.getByRole('heading', { name: 'Signed off and saved' }).waitFor()
+      expect(writes.map(w => w.method)).toEqual(['POST'])
+      expect(writes[0]!.url).toMatch(new RegExp(`/api/coverings/${covering.body.id}/inspections$`))
+      expect(JSON.parse(writes[0]!.body!).covering).toEqual({ control: 'motorised' })
+      const { rows: [row] } = await db.query('SELECT c.control, i.record->>\'control\' AS recorded FROM coverings c JOIN inspections i ON i.id = c.last_inspection_id WHERE c.id = $1', [covering.body.id])
+      expect(row).toEqual({ control: 'motorised', recorded: 'motorised' })
+    }
+    finally {
+      await context.close()
+      await db.end()
     }
   })
 })

@@ -1,9 +1,10 @@
 import { idParamsSchema } from '#shared/schemas/common'
 import { inspectionCreateSchema } from '#shared/schemas/inspection'
 import { Covering } from '../../../models'
-import { RecordInvalidError, SignOffRefusedError, signOff } from '../../../services/signoff'
+import { ClientKeyConflictError, RecordInvalidError, SignOffRefusedError, signOff } from '../../../services/signoff'
 
-// Sign-off: an inspection is saved once and never edited; a correction is a new one.
+// Sign-off: an inspection is saved once and never edited; a correction is a new one. Any change the visit found
+// to the covering's rule-read fields (body.covering) is written with it, in the same transaction.
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, ['admin', 'officer', 'installer'])
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
@@ -18,6 +19,7 @@ export default defineEventHandler(async (event) => {
     if (err instanceof RecordInvalidError) {
       throw createError({ statusCode: 400, message: `measurements.${err.message}`, data: { fields: Object.fromEntries(Object.entries(err.fields).map(([k, v]) => [`measurements.${k}`, v])) } })
     }
+    if (err instanceof ClientKeyConflictError) throw createError({ statusCode: 409, message: err.message, data: { fields: { clientKey: err.message } } })
     if (err instanceof SignOffRefusedError) throw createError({ statusCode: 400, message: err.message, data: { fields: { [err.field]: err.message } } })
     throw err
   }
