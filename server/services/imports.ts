@@ -6,7 +6,7 @@ import type { Parser } from 'csv-parse'
 import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
 import { Client, ImportFile, Job } from '../models'
-import { MAX_IMPORT_ROWS, mapHeader } from '../../shared/schemas/imports'
+import { MAX_IMPORT_BYTES, MAX_IMPORT_ROWS, mapHeader } from '../../shared/schemas/imports'
 import type { ImportDetail, ImportRowError, ImportSummary } from '../../shared/types/jobs'
 import type { ListResult } from '../../shared/schemas/common'
 import { logActivity } from './activity'
@@ -126,6 +126,9 @@ export async function importClient(actor: Actor, clientId: number | undefined) {
 
 /** Stores the file in S3 (so any server process can read it) and queues the import. */
 export async function createImport(db: Sequelize, actor: Actor, args: { client: Client, fileName: string, data: Uint8Array, mode: 'dry_run' | 'commit', skipInvalid: boolean }) {
+  if (args.data.byteLength > MAX_IMPORT_BYTES) {
+    throw new ImportRefusedError('file', `file: it is ${(args.data.byteLength / 1048576).toFixed(1)} MB; the limit is 32 MB, so split it and import the parts`, 413)
+  }
   const { rows } = await surveyCsv(args.data)
   const sha256 = createHash('sha256').update(args.data).digest('hex')
   const objectKey = `w${actor.workspaceId}/imports/${randomUUID()}.csv`
