@@ -31,22 +31,25 @@ function multipart(fields: Record<string, string>, fileName: string, fileType: s
   return { head: Buffer.from(head), tail: Buffer.from(`\r\n--${boundary}--\r\n`), type: `multipart/form-data; boundary=${boundary}` }
 }
 
-interface Sent { status: number, body: any, written: number, total: number }
+interface Sent { status: number, body: any, written: number, total: number, writtenInAll: number }
 
 /**
  * Sends `head`, then `fill` bytes of `filler`, then `tail`, as fast as the server takes them, with a Content-Length
- * or chunked; stops writing as soon as the answer comes, and says how much had been written by then.
+ * or chunked, and says how much had been written when the answer came. Writing stops at the answer, or with
+ * `keepSending` goes on for as long as the server takes bytes (`writtenInAll`: what it took before it closed).
  */
-function send(path: string, cookie: string, type: string, parts: { head: Buffer, fill: number, filler: number, tail: Buffer }, chunked: boolean): Promise<Sent> {
+function send(path: string, cookie: string, type: string, parts: { head: Buffer, fill: number, filler: number, tail: Buffer }, chunked: boolean, keepSending = false): Promise<Sent> {
   const total = parts.head.byteLength + parts.fill + parts.tail.byteLength
   return new Promise((resolve, reject) => {
     let written = 0
-    let answered = false
+    let answer: Omit<Sent, 'writtenInAll'> | undefined
+    let sending = true
+    const finish = () => { if (answer && !sending) resolve({ ...answer, writtenInAll: written }) }
     const headers: Record<string, string | number> = { 'content-type': type, cookie, 'accept': 'application/json' }
     if (!chunked) headers['content-length'] = total
     const req = http.request(`${baseUrl}${path}`, { method: 'POST', headers }, (res) => {
-      answered = true
       const writtenAtAnswer = written
+      if (!keepSending) sending = false
       const chunks: Buffer[] = []
       res.on('data', (c: Buffer) => chunks.push(c))
       res.on('end', () => {
@@ -54,22 +57,28 @@ function send(path: string, cookie: string, type: string, parts: { head: Buffer,
         let body: unknown = text
         try { body = JSON.parse(text) }
         catch { /* not JSON */ }
-        resolve({ status: res.statusCode!, body, written: writtenAtAnswer, total })
+        answer = { status: res.statusCode!, body, written: writtenAtAnswer, total }
+        finish()
       })
     })
     req.setTimeout(60_000, () => req.destroy(new Error('no answer within 60 s')))
-    req.on('error', (err) => { if (!answered) reject(err) })
+    req.on('error', (err) => {
+      sending = false
+      if (answer) finish()
+      else reject(err)
+    })
+    req.on('close', () => { sending = false; finish() })
     const chunk = Buffer.alloc(256 * 1024, parts.filler)
     let filled = 0
     const write = (b: Buffer) => { written += b.byteLength; return req.write(b) }
     write(parts.head)
     const pump = () => {
-      while (!answered && filled < parts.fill) {
+      while (sending && filled < parts.fill) {
         const piece = chunk.subarray(0, Math.min(chunk.byteLength, parts.fill - filled))
         filled += piece.byteLength
         if (!write(piece)) { req.once('drain', pump); return }
       }
-      if (!answered) {
+      if (sending) {
         write(parts.tail)
         req.end()
       }
@@ -119,6 +128,14 @@ describe('imports', () => {
     expect(r.written).toBeGreaterThan(32 * MB)
     expect(r.written).toBeLessThan(48 * MB)
     expect(await objectCountOfImports()).toBe(before)
+  })
+
+  it('does not read an upload it refuses for want of a session', async () => {
+    const form = multipart({ mode: 'dry-run' }, 'anonymous.csv', 'text/csv')
+    const r = await send('/api/imports', 'nuxt-session=none', form.type, { head: Buffer.concat([form.head, Buffer.from(CSV_HEADER)]), fill: 100 * MB, filler: 0x0a, tail: form.tail }, true, true)
+    expect(r.status).toBe(401)
+    // The client goes on sending after the answer; the server takes no more than its socket buffers hold.
+    expect(r.writtenInAll).toBeLessThan(16 * MB)
   })
 })
 
