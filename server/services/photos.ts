@@ -1,4 +1,4 @@
-import { createHash, randomUUID } from 'node:crypto'
+import { randomUUID, webcrypto } from 'node:crypto'
 import exifr from 'exifr'
 import { fileTypeFromBuffer } from 'file-type'
 import sharp from 'sharp'
@@ -172,7 +172,8 @@ export async function storePhoto(db: Sequelize, args: { actor: Actor, covering: 
   const uploadedAt = new Date()
   const decoded = await decodePhoto(args.data)
   const capturedAt = await captureTime(decoded.exif, uploadedAt)
-  const sha256 = createHash('sha256').update(args.data).digest('hex')
+  // Hashed off the event loop (Web Crypto runs the digest on a worker thread).
+  const sha256 = Buffer.from(await webcrypto.subtle.digest('SHA-256', args.data)).toString('hex')
   const base = `w${args.actor.workspaceId}/s${args.covering.siteId}/c${args.covering.id}/${randomUUID()}`
   const objectKey = `${base}.${decoded.ext}`
   const thumbKey = `${base}.thumb.jpg`
