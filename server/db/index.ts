@@ -8,6 +8,7 @@ import * as audits from '../migrations/0003-audits'
 import * as reportFiles from '../migrations/0004-report-files'
 import * as jobsImportsRechecks from '../migrations/0005-jobs-imports-rechecks'
 import * as mailAndSignIn from '../migrations/0006-mail-and-sign-in'
+import * as photoDecodedSize from '../migrations/0007-photo-decoded-size'
 import * as evidenceRules from '../migrations/0008-evidence-rules'
 
 // Plain module (no Nitro auto-imports) so scripts and the server share one way to connect.
@@ -41,6 +42,7 @@ const migrations = [
   { name: '0004-report-files', ...reportFiles },
   { name: '0005-jobs-imports-rechecks', ...jobsImportsRechecks },
   { name: '0006-mail-and-sign-in', ...mailAndSignIn },
+  { name: '0007-photo-decoded-size', ...photoDecodedSize },
   { name: '0008-evidence-rules', ...evidenceRules },
 ]
 

@@ -1,12 +1,13 @@
 import { isUtf8 } from 'node:buffer'
-import { createHash, randomUUID } from 'node:crypto'
+import { randomUUID, webcrypto } from 'node:crypto'
 import { Readable } from 'node:stream'
+import { setImmediate as nextTurn } from 'node:timers/promises'
 import { parse } from 'csv-parse'
 import type { Parser } from 'csv-parse'
 import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
 import { Client, ImportFile, Job } from '../models'
-import { MAX_IMPORT_ROWS, mapHeader } from '../../shared/schemas/imports'
+import { MAX_IMPORT_BYTES, MAX_IMPORT_ROWS, mapHeader } from '../../shared/schemas/imports'
 import type { ImportDetail, ImportRowError, ImportSummary } from '../../shared/types/jobs'
 import type { ListResult } from '../../shared/schemas/common'
 import { logActivity } from './activity'
@@ -40,27 +41,57 @@ export function countCsvRecords(data: Uint8Array) {
   return scanCsv(data).records
 }
 
+/** Counts records across slices of a file, so a long file can be scanned a slice at a time. */
+class CsvScan {
+  records = 0
+  inQuotes = false
+  lineHasText = false
+  line = 1
+  quoteLine = 0
+
+  feed(data: Uint8Array, from: number, to: number) {
+    let { records, inQuotes, lineHasText, line, quoteLine } = this
+    for (let i = from; i < to; i++) {
+      const b = data[i]!
+      if (b === 0x22) {
+        inQuotes = !inQuotes
+        lineHasText = true
+        if (inQuotes) quoteLine = line
+      }
+      else if (b === 0x0a) {
+        line++
+        if (!inQuotes) { if (lineHasText) records++; lineHasText = false }
+      }
+      else if (b !== 0x0d) lineHasText = true
+    }
+    Object.assign(this, { records, inQuotes, lineHasText, line, quoteLine })
+  }
+
+  result(): { records: number, unclosedQuoteLine?: number } {
+    return { records: this.records + (this.lineHasText ? 1 : 0), unclosedQuoteLine: this.inQuotes ? this.quoteLine : undefined }
+  }
+}
+
 /**
  * One pass over the bytes, no parsing: the records (line breaks outside quotes, blank lines not counted), and the
  * line where a quoted cell opened that is never closed, if one is.
  */
-export function scanCsv(data: Uint8Array): { records: number, unclosedQuoteLine?: number } {
-  let records = 0, inQuotes = false, lineHasText = false, line = 1, quoteLine = 0
-  for (let i = 0; i < data.length; i++) {
-    const b = data[i]!
-    if (b === 0x22) {
-      inQuotes = !inQuotes
-      lineHasText = true
-      if (inQuotes) quoteLine = line
-    }
-    else if (b === 0x0a) {
-      line++
-      if (!inQuotes) { if (lineHasText) records++; lineHasText = false }
-    }
-    else if (b !== 0x0d) lineHasText = true
-  }
-  return { records: records + (lineHasText ? 1 : 0), unclosedQuoteLine: inQuotes ? quoteLine : undefined }
+export function scanCsv(data: Uint8Array) {
+  const scan = new CsvScan()
+  scan.feed(data, 0, data.length)
+  return scan.result()
 }
+
+/** The same pass a megabyte at a time, letting other requests in between, so a 32 MB file never holds anyone up. */
+async function scanCsvInTurns(data: Uint8Array) {
+  const scan = new CsvScan()
+  for (let from = 0; from < data.length; from += SCAN_SLICE_BYTES) {
+    scan.feed(data, from, Math.min(data.length, from + SCAN_SLICE_BYTES))
+    await nextTurn()
+  }
+  return scan.result()
+}
+const SCAN_SLICE_BYTES = 1024 * 1024
 
 /** The 1-based line of a byte offset. */
 function lineAt(data: Uint8Array, offset: number) {
@@ -107,7 +138,7 @@ export async function surveyCsv(data: Uint8Array): Promise<{ rows: number }> {
   if (!header) throw new ImportRefusedError('file', 'file: it is empty; start from the template')
   const mapped = mapHeader(header)
   if ('error' in mapped) throw new ImportRefusedError('file', `file: ${mapped.error}`)
-  const scan = scanCsv(data)
+  const scan = await scanCsvInTurns(data)
   if (scan.unclosedQuoteLine) throw new ImportRefusedError('file', `file: a quoted cell opened on line ${scan.unclosedQuoteLine} is never closed`)
   const rows = scan.records - 1
   if (rows < 1) throw new ImportRefusedError('file', 'file: there are no rows below the header; fill in the template and try again')
@@ -126,8 +157,12 @@ export async function importClient(actor: Actor, clientId: number | undefined) {
 
 /** Stores the file in S3 (so any server process can read it) and queues the import. */
 export async function createImport(db: Sequelize, actor: Actor, args: { client: Client, fileName: string, data: Uint8Array, mode: 'dry_run' | 'commit', skipInvalid: boolean }) {
+  if (args.data.byteLength > MAX_IMPORT_BYTES) {
+    throw new ImportRefusedError('file', `file: it is ${(args.data.byteLength / 1048576).toFixed(1)} MB; the limit is 32 MB, so split it and import the parts`, 413)
+  }
   const { rows } = await surveyCsv(args.data)
-  const sha256 = createHash('sha256').update(args.data).digest('hex')
+  // Hashed off the event loop (Web Crypto runs the digest on a worker thread).
+  const sha256 = Buffer.from(await webcrypto.subtle.digest('SHA-256', args.data)).toString('hex')
   const objectKey = `w${actor.workspaceId}/imports/${randomUUID()}.csv`
   await putObject(objectKey, args.data, 'text/csv', sha256)
   return queueImport(db, actor, { clientId: args.client.id, mode: args.mode, skipInvalid: args.skipInvalid, dryRunId: null, fileName: args.fileName,

@@ -1,14 +1,15 @@
-import { MAX_IMPORT_BYTES, importFormSchema } from '#shared/schemas/imports'
+import { importFormSchema } from '#shared/schemas/imports'
 import { ImportRefusedError, createImport, getImport, importClient } from '../../services/imports'
 import { StorageUnavailableError } from '../../services/storage'
 
 // multipart/form-data: `file` (the CSV), `mode` (dry-run or commit), `skipInvalid`, and for staff `clientId`.
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, ['admin', 'officer', 'manager'])
-  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_IMPORT_BYTES + 64 * 1024) {
-    throw createError({ statusCode: 413, message: 'file: the file is larger than 32 MB; split it and import the parts', data: { fields: { file: 'too large' } } })
-  }
-  const parts = await readMultipartFormData(event).catch(() => null)
+  // The body guard counts the bytes as they arrive and refuses past 32 MB (413 naming `file`) before all are read.
+  const parts = await readMultipartFormData(event).catch((err: unknown) => {
+    if (isError(err)) throw err
+    return null
+  })
   if (!parts) throw createError({ statusCode: 400, message: 'file: send the CSV as multipart/form-data with a `file` part', data: { fields: { file: 'missing' } } })
   const form = validateFields(importFormSchema, Object.fromEntries(parts.filter(p => p.filename === undefined && p.name).map(p => [p.name!, p.data.toString('utf8')])))
   const file = parts.find(p => p.name === 'file' && p.filename !== undefined)

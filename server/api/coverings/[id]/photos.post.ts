@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { idParamsSchema } from '#shared/schemas/common'
 import { Covering } from '../../../models'
-import { PHOTO_MAX_BYTES, PhotoRejectedError, photoJson, photoKinds, storePhoto } from '../../../services/photos'
+import { PhotoRejectedError, photoJson, photoKinds, storePhoto } from '../../../services/photos'
 import { StorageUnavailableError } from '../../../services/storage'
 
 const kindSchema = z.enum(photoKinds, { error: `kind must be one of ${photoKinds.join(', ')}` })
@@ -11,9 +11,11 @@ export default defineEventHandler(async (event) => {
   const user = await requireRole(event, ['admin', 'officer', 'installer'])
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const { record: covering } = await requireInSite(event, Covering, id)
-  const declared = Number(getRequestHeader(event, 'content-length') ?? 0)
-  if (declared > PHOTO_MAX_BYTES + 64 * 1024) throw createError({ statusCode: 413, message: 'file: the photo is larger than 15 MB' })
-  const parts = await readMultipartFormData(event).catch(() => null)
+  // The body guard counts the bytes as they arrive and refuses past 15 MB (413 naming `file`) before all are read.
+  const parts = await readMultipartFormData(event).catch((err: unknown) => {
+    if (isError(err)) throw err
+    return null
+  })
   if (!parts) throw createError({ statusCode: 400, message: 'file: send the photo as multipart/form-data with a `file` part', data: { fields: { file: 'missing' } } })
   const file = parts.find(p => p.name === 'file' && p.filename !== undefined)
   if (!file?.data.byteLength) throw createError({ statusCode: 400, message: 'file: no photo was attached', data: { fields: { file: 'missing' } } })
