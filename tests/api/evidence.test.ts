@@ -57,10 +57,22 @@ const hoursAgo = (h: number) => new Date(Date.now() - h * 3_600_000).toISOString
 async function undecodedPhoto(coveringId: number, kind: string) {
   const { rows: [c] } = await db.query('SELECT c.site_id, s.workspace_id FROM coverings c JOIN sites s ON s.id = c.site_id WHERE c.id = $1', [coveringId])
   const uploader = await db.query('SELECT id FROM users WHERE email = $1', [accounts.installer])
-  const { rows: [p] } = await db.query(`INSERT INTO photos (workspace_id, site_id, covering_id, kind, object_key, content_type, size_bytes, sha256, uploaded_by, width_px, height_px)
-    VALUES ($1, $2, $3, $4, $5, 'image/jpeg', 1234, $6, $7, NULL, NULL) RETURNING id`,
-  [c.workspace_id, c.site_id, coveringId, kind, `legacy/${randomBytes(8).toString('hex')}.jpg`, randomBytes(32).toString('hex'), uploader.rows[0].id])
-  return Number(p.id)
+  // New rows must carry a decoded size (photos_decoded_size); an older row is made as it was before that check.
+  await db.query('BEGIN')
+  try {
+    await db.query('ALTER TABLE photos DROP CONSTRAINT photos_decoded_size')
+    const { rows: [p] } = await db.query(`INSERT INTO photos (workspace_id, site_id, covering_id, kind, object_key, content_type, size_bytes, sha256, uploaded_by, width_px, height_px)
+      VALUES ($1, $2, $3, $4, $5, 'image/jpeg', 1234, $6, $7, NULL, NULL) RETURNING id`,
+    [c.workspace_id, c.site_id, coveringId, kind, `legacy/${randomBytes(8).toString('hex')}.jpg`, randomBytes(32).toString('hex'), uploader.rows[0].id])
+    await db.query(`ALTER TABLE photos ADD CONSTRAINT photos_decoded_size
+      CHECK (width_px IS NOT NULL AND height_px IS NOT NULL AND width_px > 0 AND height_px > 0) NOT VALID`)
+    await db.query('COMMIT')
+    return Number(p.id)
+  }
+  catch (err) {
+    await db.query('ROLLBACK')
+    throw err
+  }
 }
 
 describe('a clientKey replays only the same person\'s same sign-off', () => {
