@@ -13,16 +13,22 @@ const DEMO_PASSWORD = 'tautline-demo'
 
 type Measures = Record<string, unknown>
 // Measurement sets a fitter would record (millimetres, newtons).
-const labelsOk = { warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, climbableFurnitureNearby: false }
+const labelsOk = { warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, climbableFurnitureNearby: false, installedPerInstructions: true, bilingualInformation: true }
+// A tension device screwed into masonry plugs that holds the loop taut and cannot be undone by a child.
+const deviceOk = { tensionDeviceTamperProof: true, deviceFixing: 'masonry_plugs', tensionDeviceHoldsTaut: true }
+// Inner (lift) cords with stops fitted: pulled out between the slats or folds, little comes out.
+const innerStopped = { innerCordStops: true, innerLoopPullOutMm: 40 }
 const m = {
-  chainTensioned: { headHeightMm: 2150, lowestCordPointMm: 880, loopPullOutMm: 35, loopPerimeterMm: 70, tensionDevice: true, tensionDeviceHeightMm: 880, tensionDeviceHoldN: 85, tensionDeviceTamperProof: true, cleat: false, breakaway: false, innerCordStops: true, ...labelsOk },
+  chainTensioned: { headHeightMm: 2150, lowestCordPointMm: 880, loopPullOutMm: 35, loopPerimeterMm: 70, tensionDevice: true, tensionDeviceHeightMm: 880, tensionDeviceHoldN: 85, ...deviceOk, cleat: false, breakaway: false, ...innerStopped, ...labelsOk },
   chainLoose: { headHeightMm: 2150, lowestCordPointMm: 1020, loopPullOutMm: 310, loopPerimeterMm: 620, tensionDevice: false, cleat: false, breakaway: false, innerCordStops: true, ...labelsOk },
-  chainNoPullTest: { headHeightMm: 2100, lowestCordPointMm: 900, loopPullOutMm: 30, loopPerimeterMm: 60, tensionDevice: true, tensionDeviceHeightMm: 900, tensionDeviceHoldN: null, tensionDeviceTamperProof: true, cleat: false, breakaway: false, innerCordStops: true, ...labelsOk },
+  chainNoPullTest: { headHeightMm: 2100, lowestCordPointMm: 900, loopPullOutMm: 30, loopPerimeterMm: 60, tensionDevice: true, tensionDeviceHeightMm: 900, tensionDeviceHoldN: null, ...deviceOk, cleat: false, breakaway: false, ...innerStopped, ...labelsOk },
   chainHigh: { headHeightMm: 2600, lowestCordPointMm: 1700, loopPullOutMm: 260, loopPerimeterMm: 520, tensionDevice: false, cleat: false, breakaway: false, innerCordStops: true, ...labelsOk },
-  cordCleatHigh: { headHeightMm: 2200, lowestCordPointMm: 1650, freeCordLengthMm: 500, operatingCordLengthMm: 550, cleat: true, cleatHeightMm: 1650, tensionDevice: false, breakaway: false, innerCordStops: true, ...labelsOk },
+  cordCleatHigh: { headHeightMm: 2200, lowestCordPointMm: 1650, freeCordLengthMm: 500, operatingCordLengthMm: 550, cleat: true, cleatHeightMm: 1650, tensionDevice: false, breakaway: false, ...innerStopped, ...labelsOk },
   cordCleatLow: { headHeightMm: 2200, lowestCordPointMm: 1150, freeCordLengthMm: 1000, operatingCordLengthMm: 1050, cleat: true, cleatHeightMm: 1150, tensionDevice: false, breakaway: false, innerCordStops: true, ...labelsOk },
-  noLabel: { headHeightMm: 2150, lowestCordPointMm: 880, loopPullOutMm: 35, loopPerimeterMm: 70, tensionDevice: true, tensionDeviceHeightMm: 880, tensionDeviceHoldN: 90, tensionDeviceTamperProof: true, cleat: false, breakaway: false, innerCordStops: true, ...labelsOk, installerLabel: false, swingTag: false },
-  wand: { headHeightMm: 2100, innerCordStops: true, ...labelsOk },
+  noLabel: { headHeightMm: 2150, lowestCordPointMm: 880, loopPullOutMm: 35, loopPerimeterMm: 70, tensionDevice: true, tensionDeviceHeightMm: 880, tensionDeviceHoldN: 90, ...deviceOk, cleat: false, breakaway: false, ...innerStopped, ...labelsOk, installerLabel: false, swingTag: false },
+  wand: { headHeightMm: 2100, ...innerStopped, ...labelsOk },
+  // Cordless cellular and pleated: the lift cords run inside the cells or behind a closed rail, out of reach.
+  cordless: { headHeightMm: 2100, innerCordStops: true, innerCordsReachable: false, ...labelsOk },
   motor: { headHeightMm: 2300, ...labelsOk },
   euBreakaway: { headHeightMm: 2300, lowestCordPointMm: 1000, loopPullOutMm: 150, loopPerimeterMm: 300, breakaway: true, tensionDevice: false, cleat: false, innerCordStops: true, ...labelsOk },
   euLow: { headHeightMm: 2300, lowestCordPointMm: 450, loopPullOutMm: 400, loopPerimeterMm: 800, breakaway: false, tensionDevice: false, cleat: false, innerCordStops: true, ...labelsOk },
@@ -49,7 +55,7 @@ const demoSites: SiteSeed[] = [
     { ref: 'U2', name: 'Unit 2', floor: 'Ground', openings: [
       { ref: 'W1', room: 'Living', coverings: [c('WAT-2-01', 'vertical', 'chain_loop', m.chainNoPullTest, { widthMm: 2400, dropMm: 2050 })] },
       { ref: 'W2', room: 'Bedroom 1', coverings: [c('WAT-2-02', 'roman', 'free_cord', m.cordCleatHigh)] },
-      { ref: 'W3', room: 'Bedroom 2', childrensRoom: true, coverings: [c('WAT-2-03', 'cellular', 'cordless', m.wand, { madeTo: 'stock' })] },
+      { ref: 'W3', room: 'Bedroom 2', childrensRoom: true, coverings: [c('WAT-2-03', 'cellular', 'cordless', m.cordless, { madeTo: 'stock' })] },
     ] },
     { ref: 'U3', name: 'Unit 3', floor: 'First', openings: [
       { ref: 'W1', room: 'Living', coverings: [c('WAT-3-01', 'roller', 'chain_loop', m.noLabel, { widthMm: 1600 })] },
@@ -72,7 +78,7 @@ const demoSites: SiteSeed[] = [
       { ref: 'D1', room: 'Lounge door', coverings: [c('COB-2-03', 'curtain', 'wand', m.wand, { installedOn: '2025-06-04', widthMm: 1500, dropMm: 2200 })] },
     ] },
     { ref: 'F3', name: 'Flat 3', floor: 'Second', openings: [
-      { ref: 'W1', room: 'Lounge', coverings: [c('COB-3-01', 'pleated', 'cordless', m.wand, { installedOn: '2025-06-05', madeTo: 'stock' })] },
+      { ref: 'W1', room: 'Lounge', coverings: [c('COB-3-01', 'pleated', 'cordless', m.cordless, { installedOn: '2025-06-05', madeTo: 'stock' })] },
       { ref: 'W2', room: 'Bedroom', coverings: [c('COB-3-02', 'roller', 'chain_loop', m.chainHigh, { installedOn: '2025-06-05' })] },
     ] },
   ] },
@@ -82,7 +88,7 @@ const demoSites: SiteSeed[] = [
     ] },
     { ref: 'R2', name: 'Toddlers room', openings: [
       { ref: 'W1', room: 'Toddlers room', childrensRoom: true, coverings: [c('SPR-2-01', 'vertical', 'chain_loop', m.chainTensioned, { widthMm: 3000, dropMm: 2100 })] },
-      { ref: 'W2', room: 'Sleep room', childrensRoom: true, coverings: [c('SPR-2-02', 'cellular', 'cordless', m.wand, { madeTo: 'stock' })] },
+      { ref: 'W2', room: 'Sleep room', childrensRoom: true, coverings: [c('SPR-2-02', 'cellular', 'cordless', m.cordless, { madeTo: 'stock' })] },
     ] },
     { ref: 'R3', name: 'Office', openings: [
       { ref: 'W1', room: 'Office', coverings: [c('SPR-3-01', 'venetian', 'free_cord', m.cordCleatHigh, { widthMm: 900 })] },
@@ -95,7 +101,7 @@ const demoSites: SiteSeed[] = [
       { ref: 'W2', room: 'Bedroom', coverings: [c('NTB-A-02', 'venetian', 'free_cord', m.caLong, { manufacturedOn: '2024-05', installedOn: '2024-08-19' })] },
     ] },
     { ref: 'B', name: 'Apartment B', openings: [
-      { ref: 'W1', room: 'Living', coverings: [c('NTB-B-01', 'cellular', 'cordless', m.wand, { manufacturedOn: '2024-05', installedOn: '2024-08-20', madeTo: 'stock' })] },
+      { ref: 'W1', room: 'Living', coverings: [c('NTB-B-01', 'cellular', 'cordless', m.cordless, { manufacturedOn: '2024-05', installedOn: '2024-08-20', madeTo: 'stock' })] },
       { ref: 'W2', room: 'Bedroom', childrensRoom: true, coverings: [c('NTB-B-02', 'roller', 'chain_loop', m.caLong, { manufacturedOn: '2024-05', installedOn: '2024-08-20' })] },
       { ref: 'W3', room: 'Kitchen', coverings: [c('NTB-B-03', 'roller', 'motorised', m.motor, { manufacturedOn: '2024-05', installedOn: '2024-08-20' })] },
       { ref: 'W4', room: 'Den', coverings: [c('NTB-B-04', 'roman', 'free_cord', m.caShort, { manufacturedOn: '2024-05', installedOn: '2024-08-20' })] },

@@ -111,7 +111,7 @@ describe('remedies (fixes) tracked to closure', () => {
     expect(await open()).toBeGreaterThan(0)
     const passing = { headHeightMm: 2150, lowestCordPointMm: 880, loopPullOutMm: 35, loopPerimeterMm: 70, tensionDevice: true, tensionDeviceHeightMm: 880,
       tensionDeviceHoldN: 85, tensionDeviceTamperProof: true, cleat: false, breakaway: false, innerCordStops: true,
-      warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, climbableFurnitureNearby: false }
+      warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, climbableFurnitureNearby: false, installedPerInstructions: true }
     const device = await uploadPhoto(installer, id, 'tension_device')
     // The device photo is required, so this inspection has one: remedies close with it.
     const r = await installer.post(`/api/coverings/${id}/inspections`, { measurements: passing, photoIds: [device.id] })
@@ -127,7 +127,7 @@ describe('remedies (fixes) tracked to closure', () => {
     const before = (await officer.get(`/api/fixes?coveringId=${id}&status=open`)).body.total
     expect(before).toBeGreaterThan(0)
     // SOR/2019-97 s 5: a reachable free-end cord of at most 22 cm.
-    const r = await installer.post(`/api/coverings/${id}/inspections`, { measurements: { headHeightMm: 2050, freeCordLengthMm: 150, loopPerimeterMm: 300, loopPullOutMm: 150, cordSpanMm: 150, jointFreeCordsMm: 0, lowestCordPointMm: 1400, innerCordStops: true, warningLabel: true, manufacturerLabel: true, innerCordsReachable: false } })
+    const r = await installer.post(`/api/coverings/${id}/inspections`, { measurements: { headHeightMm: 2050, freeCordLengthMm: 150, loopPerimeterMm: 300, loopPullOutMm: 150, cordSpanMm: 150, jointFreeCordsMm: 0, lowestCordPointMm: 1400, innerCordStops: true, warningLabel: true, manufacturerLabel: true, innerCordsReachable: false, bilingualInformation: true } })
     expect(r.status, JSON.stringify(r.body)).toBe(201)
     expect((await officer.get(`/api/fixes?coveringId=${id}&status=open`)).body.total).toBe(before)
   })

@@ -41,13 +41,13 @@ async function freshCovering(fields: Record<string, unknown> = {}) {
 
 // AS/NZS 60335.2.97 / ACCC mandatory standard (as the AU rule set cites it): a loose loop hanging to 300 mm fails.
 const hanging = { headHeightMm: 1500, lowestCordPointMm: 300, loopPullOutMm: 600, loopPerimeterMm: 1800, tensionDevice: false, innerCordStops: true,
-  warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true }
+  warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, installedPerInstructions: true }
 // The same covering put right: a short loop (150 mm, under the AU rule set's 220 mm) 900 mm up, labelled.
 const putRight = { headHeightMm: 2100, lowestCordPointMm: 900, loopPullOutMm: 150, loopPerimeterMm: 300, tensionDevice: false, innerCordStops: true,
-  warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true }
+  warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, installedPerInstructions: true }
 const tensioned = { headHeightMm: 2100, lowestCordPointMm: 900, loopPullOutMm: 30, loopPerimeterMm: 60, tensionDevice: true, tensionDeviceHeightMm: 900,
   tensionDeviceHoldN: 80, tensionDeviceTamperProof: true, cleat: false, breakaway: false, innerCordStops: true,
-  warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, climbableFurnitureNearby: false }
+  warningLabel: true, swingTag: true, installerLabel: true, manufacturerLabel: true, climbableFurnitureNearby: false, installedPerInstructions: true }
 
 const signOff = (client: ApiClient, id: number, body: Record<string, unknown>) => client.post(`/api/coverings/${id}/inspections`, body)
 const openFixes = async (id: number) => Number((await db.query(`SELECT count(*) AS n FROM fixes WHERE covering_id = $1 AND status = 'open'`, [id])).rows[0].n)

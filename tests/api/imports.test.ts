@@ -18,10 +18,10 @@ beforeAll(async () => {
 afterAll(async () => { await db.end() })
 
 const header = ['site_ref', 'site_name', 'address', 'jurisdiction', 'premises', 'unit_ref', 'unit_name', 'opening_ref', 'room', 'covering_ref', 'product_type', 'control',
-  'made_to', 'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label']
+  'made_to', 'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label', 'installed_per_instructions']
 const newSite = (ref: string) => ({ site_ref: ref, site_name: `Imported ${ref}`, address: `${ref.length} Import Lane, Kellerton NSW 2999`, jurisdiction: 'AU', premises: 'rental_home' })
 const measured = { made_to: 'custom', installed_on: '2025-05-01', measured_on: '2026-06-02', head_height_mm: '2100mm', lowest_cord_point_mm: '900',
-  loop_pull_out_mm: '150', tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes' }
+  loop_pull_out_mm: '150', tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes', installed_per_instructions: 'yes' }
 const covering = (unit: string, ref: string, extra: Record<string, string> = {}) => ({ unit_ref: unit, unit_name: `Unit ${unit}`, opening_ref: 'W1', room: 'Living',
   covering_ref: ref, product_type: 'roller', control: 'chain_loop', ...measured, ...extra })
 
@@ -117,7 +117,7 @@ describe('a file with bad rows', () => {
     expect(units.body.items.map((u: { ref: string }) => u.ref)).toEqual(['1', '3'])
     const { rows: [inspection] } = await db.query(`SELECT i.kind, i.import_id, i.source_row, i.verdict, i.rules_version, c.last_inspection_id = i.id AS latest
       FROM inspections i JOIN coverings c ON c.id = i.covering_id WHERE c.ref = 'IMP-BAD-01'`)
-    expect(inspection).toMatchObject({ kind: 'import', import_id: done.id, source_row: 2, verdict: 'compliant', rules_version: 'AU-2026.12.0', latest: true })
+    expect(inspection).toMatchObject({ kind: 'import', import_id: done.id, source_row: 2, verdict: 'compliant', rules_version: 'AU-2026.12.1', latest: true })
   })
 })
 

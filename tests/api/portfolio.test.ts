@@ -20,9 +20,9 @@ function ago(months: number, days = 0) {
 
 // Site PRT: one covering per re-inspection state, and one that fails.
 const header = ['site_ref', 'site_name', 'address', 'jurisdiction', 'premises', 'unit_ref', 'unit_name', 'opening_ref', 'room', 'covering_ref', 'product_type', 'control',
-  'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label', 'made_to']
+  'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label', 'made_to', 'installed_per_instructions']
 const ok = { product_type: 'roller', control: 'chain_loop', installed_on: '2024-05-01', head_height_mm: '2100', lowest_cord_point_mm: '900', loop_pull_out_mm: '100',
-  tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes', made_to: 'custom' }
+  tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes', made_to: 'custom', installed_per_instructions: 'yes' }
 
 beforeAll(async () => {
   db = await database()

@@ -9,12 +9,12 @@ let ids: Awaited<ReturnType<typeof fixtureIds>>
 let officer: ApiClient, manager: ApiClient, installer: ApiClient
 let siteId: number
 
-// Site RCK: one covering whose 210 mm loop hangs 900 mm up (under the 220 mm limit of AU-2026.12.0, over
+// Site RCK: one covering whose 210 mm loop hangs 900 mm up (under the 220 mm limit of AU-2026.12.1, over
 // the 200 mm of the test fixture), one with a 150 mm loop (under both), and one never measured.
 const header = ['site_ref', 'site_name', 'address', 'jurisdiction', 'premises', 'unit_ref', 'opening_ref', 'room', 'covering_ref', 'product_type', 'control', 'made_to',
-  'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label']
+  'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label', 'installed_per_instructions']
 const measured = { product_type: 'roller', control: 'chain_loop', made_to: 'custom', installed_on: '2025-05-01', measured_on: '2026-06-02', head_height_mm: '2100',
-  lowest_cord_point_mm: '900', tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes' }
+  lowest_cord_point_mm: '900', tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes', installed_per_instructions: 'yes' }
 
 beforeAll(async () => {
   db = await database()
@@ -67,7 +67,7 @@ describe('a re-check after a rule-set version bump', () => {
     const done = await settled(officer, `/api/rechecks/${r.body.id}`)
     expect(done.status).toBe('succeeded')
     expect(done.counts.newlyPassing).toBeGreaterThanOrEqual(1)
-    expect(done.counts.rulesVersions).toContain('AU-2026.12.0')
+    expect(done.counts.rulesVersions).toContain('AU-2026.12.1')
     expect(done.counts.rulesVersions).not.toContain('AU-test-loop-200')
     const passing = await officer.get(`/api/rechecks/${r.body.id}/changes?change=newly_passing&pageSize=100`)
     expect(passing.body.items.map((c: { coveringRef: string }) => c.coveringRef)).toContain('RCK-1')

@@ -7,6 +7,7 @@ beforeAll(async () => { installer = await signIn(accounts.installer) })
 const chain = {
   ref: 'API-1', jurisdiction: 'AU', premises: 'rental_home', installedOn: '2026-03-02', productType: 'roller', control: 'chain_loop',
   headHeightMm: 2100, lowestCordPointMm: 1000, loopPullOutMm: 310, tensionDevice: false, warningLabel: true, swingTag: true, installerLabel: true,
+  installedPerInstructions: true,
 }
 
 describe('POST /api/checks', () => {
