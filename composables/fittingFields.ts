@@ -23,6 +23,8 @@ export interface FittingSituation {
   control: ControlType
   productType: ProductType
   jurisdiction: Jurisdiction
+  /** The site's kind of premises, when known (some clauses read only in offices and industry). */
+  premises?: string
   values: Record<string, unknown>
 }
 
@@ -32,6 +34,9 @@ const isFree = (s: FittingSituation) => s.control === 'free_cord'
 const hasInner = (s: FittingSituation) => innerCorded.includes(s.productType)
 const withDevice = (s: FittingSituation) => s.values.tensionDevice === true
 const withCleat = (s: FittingSituation) => s.values.cleat === true
+const innerReachable = (s: FittingSituation) => s.values.innerCordsReachable !== false
+const slatTilted = (s: FittingSituation) => s.productType === 'venetian' || s.productType === 'vertical'
+const childFreePremises = (s: FittingSituation) => s.premises === 'office' || s.premises === 'industrial'
 
 export const fittingGroups: FittingGroup[] = [
   {
@@ -47,6 +52,7 @@ export const fittingGroups: FittingGroup[] = [
       { name: 'loopPullOutMm', kind: 'length', label: 'Largest loop pulled out', hint: 'With any device as fitted, pull out the largest loop the cords can form, lay it flat and measure its length.' },
       { name: 'loopPerimeterMm', kind: 'length', label: 'Loop perimeter', hint: 'All the way round the loop: twice the pulled-out length.' },
       { name: 'cordSpanMm', kind: 'length', label: 'Longest span between contact points', hint: 'Pulled with 35 N between two points the cord touches.', jurisdictions: ['CA'] },
+      { name: 'operatingCordsInaccessible', kind: 'flag', label: 'Cord or loop out of reach', hint: 'A rigid shroud or built-in restraint keeps the operating cord from being reached.', jurisdictions: ['US'], when: isCorded },
     ],
   },
   {
@@ -55,7 +61,10 @@ export const fittingGroups: FittingGroup[] = [
       { name: 'tensionDeviceHeightMm', kind: 'length', label: 'Tension device height', hint: 'From the floor to the device.', when: withDevice },
       { name: 'deviceFixing', kind: 'fixing', label: 'Fixed into', when: withDevice },
       { name: 'tensionDeviceHoldN', kind: 'force', label: 'Pull test: force held for 10 s', hint: 'Pull the fixed device in each direction; 70 N is about 7 kg.', when: withDevice },
-      { name: 'tensionDeviceTamperProof', kind: 'flag', label: 'Cord locked in', hint: 'A child cannot lift the cord out of the device.', when: withDevice },
+      { name: 'tensionDeviceTamperProof', kind: 'flag', label: 'Cord locked in', hint: 'A child cannot lift the cord out of the device.', jurisdictions: ['AU', 'EU'], when: withDevice },
+      { name: 'tensionDeviceHoldsTaut', kind: 'flag', label: 'Holds the loop taut', hint: 'Pulled away from the device, no loop comes out beyond the ~10 mm ease.', jurisdictions: ['EU'], when: withDevice },
+      { name: 'tensionDeviceFactoryFitted', kind: 'flag', label: 'Came attached from the maker', hint: 'The device was permanently attached to the cord or chain as supplied.', jurisdictions: ['US'], when: withDevice },
+      { name: 'operatesWithoutTensionDevice', kind: 'flag', label: 'Still works with the device loose', hint: 'Yes if the covering can still be raised or lowered with the device not under tension (a fault).', jurisdictions: ['US'], when: withDevice },
     ],
   },
   {
@@ -66,6 +75,7 @@ export const fittingGroups: FittingGroup[] = [
       { name: 'cleatHeightMm', kind: 'length', label: 'Cleat height', hint: 'From the floor to the cleat.', when: withCleat },
       { name: 'deviceFixing', kind: 'fixing', label: 'Cleat fixed into', when: withCleat },
       { name: 'longerCordRequested', kind: 'flag', label: 'Buyer asked for a longer cord', jurisdictions: ['US'] },
+      { name: 'multiCordConnector', kind: 'flag', label: 'Cords end in one connector or tassel', hint: 'Two or more operating cords joined at their ends.', jurisdictions: ['US'] },
     ],
   },
   {
@@ -76,8 +86,15 @@ export const fittingGroups: FittingGroup[] = [
   {
     id: 'inner', title: 'Inner cords', when: hasInner, fields: [
       { name: 'innerCordStops', kind: 'flag', label: 'Inner cord stops fitted', hint: 'Stops that keep the lift cords from being pulled into a loop.' },
-      { name: 'innerCordsReachable', kind: 'flag', label: 'Inner cords within reach', jurisdictions: ['US'] },
+      { name: 'innerCordsReachable', kind: 'flag', label: 'Inner cords within reach', hint: 'No if the lift cords run inside closed cells or a rail and cannot be reached at all.' },
+      { name: 'innerLoopPullOutMm', kind: 'length', label: 'Inner cord loop pulled out', hint: 'Fully lowered, stops as fitted: pull an inner or rear cord out between the slats or folds, lay the loop flat and measure it (0 if nothing comes out).', jurisdictions: ['AU', 'CA'], when: innerReachable },
+      { name: 'innerCordLoop', kind: 'flag', label: 'Inner cord pulls into a hazardous loop', hint: 'Yes if a loop a child\'s head could pass through can be pulled out, stops as fitted.', jurisdictions: ['EU', 'US'], when: innerReachable },
       { name: 'rearCordSpacingMm', kind: 'length', label: 'Rear cord spacing', hint: 'Between the rings or loops that hold the cords at the back.', jurisdictions: ['EU'], when: s => s.productType === 'roman' || s.productType === 'other' },
+    ],
+  },
+  {
+    id: 'tilt', title: 'Tilt', when: slatTilted, fields: [
+      { name: 'freeTiltCord', kind: 'flag', label: 'Free-hanging tilt cord', hint: 'The slats are tilted by a hanging cord rather than a wand.', jurisdictions: ['US'] },
     ],
   },
   {
@@ -86,6 +103,14 @@ export const fittingGroups: FittingGroup[] = [
       { name: 'swingTag', kind: 'flag', label: 'Swing tag still on the cord', jurisdictions: ['AU'], when: isCorded },
       { name: 'installerLabel', kind: 'flag', label: 'Your installer\'s label attached', jurisdictions: ['AU', 'EU'] },
       { name: 'manufacturerLabel', kind: 'flag', label: 'Maker\'s label attached', jurisdictions: ['CA', 'US', 'EU'] },
+      { name: 'bilingualInformation', kind: 'flag', label: 'Information in English and French', hint: 'The product\'s warnings and instructions are in both languages.', jurisdictions: ['CA'] },
+      { name: 'childFreePremisesWarning', kind: 'flag', label: 'Marked for premises without young children', jurisdictions: ['EU'], when: childFreePremises },
+    ],
+  },
+  {
+    id: 'installation', title: 'How it was installed', when: s => isCorded(s) || hasInner(s), fields: [
+      { name: 'installedPerInstructions', kind: 'flag', label: 'Installed as the packaged instructions say', hint: 'Every safety device fitted where the instructions on the retail packaging put it.', jurisdictions: ['AU'] },
+      { name: 'installedByBusiness', kind: 'flag', label: 'Installed by a business', hint: 'No only when the occupier fitted it themselves.', jurisdictions: ['AU'] },
     ],
   },
   {

@@ -52,7 +52,7 @@ export function useFittingForm(covering: Ref<CoveringDetail>, premises: Ref<stri
   const control = computed(() => draft.value?.control ?? (covering.value.control as ControlType))
   const jurisdiction = computed(() => covering.value.jurisdiction as Jurisdiction)
   const values = computed<Record<string, DraftValue>>(() => draft.value?.values ?? options.prefill)
-  const situation = computed<FittingSituation>(() => ({ control: control.value, productType: covering.value.productType as ProductType, jurisdiction: jurisdiction.value, values: values.value }))
+  const situation = computed<FittingSituation>(() => ({ control: control.value, productType: covering.value.productType as ProductType, jurisdiction: jurisdiction.value, premises: premises.value, values: values.value }))
   const groups = computed(() => shownFields(situation.value))
   const fields = computed(() => shownFieldList(situation.value))
   const context = computed<FittingContext>(() => ({ ...covering.value, premises: premises.value }))

@@ -99,6 +99,7 @@ describe('a site audit walked through the pages', () => {
       await answer('Tension device fitted', 'No')
       await answer('Warning label attached', 'Yes')
       await answer('Maker\'s label attached', 'Yes')
+      await answer('Information in English and French', 'Yes')
       await answer('Climbable furniture near the window', 'No')
       await page.locator('#verdict').getByText('Compliant', { exact: true }).first().waitFor()
       await page.getByRole('group', { name: 'This photo shows' }).getByText('Whole covering', { exact: true }).click()

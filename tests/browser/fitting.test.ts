@@ -70,7 +70,7 @@ describe('recording a fitting on a phone', () => {
       await page.getByRole('textbox', { name: /^Pull test: force held/ }).fill('80')
       await answer(page, 'Cord locked in', 'Yes')
       await page.getByLabel('Fixed into', { exact: true }).selectOption('masonry_plugs')
-      for (const label of ['Warning label attached', 'Swing tag still on the cord', 'Your installer\'s label attached']) await answer(page, label, 'Yes')
+      for (const label of ['Warning label attached', 'Swing tag still on the cord', 'Your installer\'s label attached', 'Installed as the packaged instructions say']) await answer(page, label, 'Yes')
       await answer(page, 'Climbable furniture near the window', 'No')
       const loopClause = clauseIn(page, 'au.loop-reach')
       await loopClause.getByText('Meets').waitFor()

@@ -9,9 +9,9 @@ beforeAll(async () => { browser = await launch() })
 afterAll(async () => { await browser?.close() })
 
 const header = ['site_ref', 'site_name', 'address', 'jurisdiction', 'premises', 'unit_ref', 'unit_name', 'opening_ref', 'room', 'covering_ref', 'product_type', 'control',
-  'made_to', 'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label']
+  'made_to', 'installed_on', 'measured_on', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'warning_label', 'swing_tag', 'installer_label', 'manufacturer_label', 'installed_per_instructions']
 const measured = { product_type: 'roller', control: 'chain_loop', made_to: 'custom', installed_on: '2025-05-01', measured_on: '2026-06-02', head_height_mm: '2100mm',
-  lowest_cord_point_mm: '900', loop_pull_out_mm: '150', tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes' }
+  lowest_cord_point_mm: '900', loop_pull_out_mm: '150', tension_device: 'no', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes', installed_per_instructions: 'yes' }
 const site = { site_ref: 'BRW', site_name: 'Browser Mews', address: '12 Pane Street, Kellerton NSW 2999', jurisdiction: 'AU', premises: 'rental_home' }
 
 async function choose(page: Page, csv: string, name: string) {
