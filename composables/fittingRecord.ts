@@ -1,5 +1,5 @@
-import { checkRecord, coveringRecordSchema } from '~/rules'
-import type { CheckResult, ControlType } from '~/rules'
+import { buildRecord, checkRecord, parseCoveringRecord } from '../rules'
+import type { CheckResult, ControlType, CoveringRecordInput } from '../rules'
 import type { CoveringDetail, FindingRow } from '#shared/types/register'
 import type { FittingField } from './fittingFields'
 import { parseForce, parseLength } from './measure'
@@ -32,20 +32,12 @@ export function readMeasurements(fields: FittingField[], values: Record<string, 
   return { measurements, errors }
 }
 
-/** The full rulebook record, built exactly as the server builds it at sign-off (register data wins). */
-export function rulebookRecord(ctx: FittingContext, control: ControlType, measurements: Measurements) {
-  return {
-    childrensRoom: ctx.childrensRoom ?? null,
-    ...measurements,
-    ref: ctx.ref,
-    jurisdiction: ctx.jurisdiction,
-    premises: ctx.premises,
-    productType: ctx.productType,
-    control,
-    madeTo: ctx.madeTo,
-    manufacturedOn: ctx.manufacturedOn,
-    installedOn: ctx.installedOn,
-  }
+/** The full rulebook record, built by the rulebook's own buildRecord, as the server builds it at sign-off (register data wins). */
+export function rulebookRecord(ctx: FittingContext, control: ControlType, measurements: Measurements): CoveringRecordInput {
+  return buildRecord({
+    ref: ctx.ref, jurisdiction: ctx.jurisdiction, premises: ctx.premises, productType: ctx.productType, control,
+    madeTo: ctx.madeTo, manufacturedOn: ctx.manufacturedOn, installedOn: ctx.installedOn, childrensRoom: ctx.childrensRoom ?? null,
+  }, measurements)
 }
 
 export interface LiveCheck {
@@ -60,9 +52,9 @@ export interface LiveCheck {
 export function liveCheck(ctx: FittingContext, control: ControlType, fields: FittingField[], values: Record<string, DraftValue>, units: Record<string, LengthUnit>): LiveCheck {
   const { measurements, errors } = readMeasurements(fields, values, units)
   const labelOf = (name: string) => fields.find(f => f.name === name)?.label ?? fieldLabel(name)
-  let input = rulebookRecord(ctx, control, measurements)
+  let input: Record<string, unknown> = rulebookRecord(ctx, control, measurements)
   for (let attempt = 0; attempt < 3; attempt++) {
-    const parsed = coveringRecordSchema.safeParse(input)
+    const parsed = parseCoveringRecord(input)
     if (parsed.success) return { measurements, errors, result: checkRecord(parsed.data) }
     const cleared: Record<string, null> = {}
     for (const issue of parsed.error.issues) {

@@ -64,3 +64,7 @@ export {
   usCustomOperatingCordDefaultMm,
 } from './arithmetic'
 export type { DeviceDrops, DevicePosition, DropInput, FixingRange, GuideFigure, InstallerGuide, InstallerGuideInput } from './arithmetic'
+export { buildRecord, registerFactsOf, registerFields } from './build'
+export type { RegisterFacts } from './build'
+export { inchesToTenthMm, readForce, readLength } from './lengths'
+export type { LengthUnit, Reading } from './lengths'

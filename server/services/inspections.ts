@@ -1,5 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize'
-import { checkRecord, coveringRecordSchema } from '../../rules'
+import { buildRecord, checkRecord, parseCoveringRecord } from '../../rules'
 import type { CheckResult, CoveringRecord } from '../../rules'
 import { Covering, Finding, Inspection, Opening } from '../models'
 import type { Site } from '../models'
@@ -8,21 +8,20 @@ import { applyInspectionToRemedies } from './fixes'
 
 export type InspectionKind = 'fitting' | 'audit' | 'import' | 'correction'
 
-/** The rulebook record for a covering: register data plus the measurements taken on this visit. */
-export function rulebookInput(site: Pick<Site, 'jurisdiction' | 'premises'>, covering: Pick<Covering, 'ref' | 'productType' | 'control' | 'madeTo' | 'manufacturedOn' | 'installedOn'>, measurements: Record<string, unknown>, opening?: { childrensRoom: boolean } | null) {
-  return {
-    // The register knows whether the room is a child's; a measurement taken on site may say otherwise.
-    childrensRoom: opening?.childrensRoom ?? null,
-    ...measurements,
-    ref: covering.ref,
-    jurisdiction: site.jurisdiction,
-    premises: site.premises,
-    productType: covering.productType,
-    control: covering.control,
-    madeTo: covering.madeTo,
-    manufacturedOn: covering.manufacturedOn,
-    installedOn: covering.installedOn,
-  }
+/**
+ * The rulebook record for a covering: register data (site, covering, the room's child's-room flag) plus the
+ * measurements taken on this visit, built by the rulebook's buildRecord as the fitting form and the import build it.
+ */
+export function rulebookInput(site: Pick<Site, 'jurisdiction' | 'premises'>, covering: Pick<Covering, 'ref' | 'productType' | 'control' | 'madeTo' | 'manufacturedOn' | 'installedOn'>, measurements: Record<string, unknown>, opening: { childrensRoom: boolean | null } | null) {
+  return buildRecord({
+    ref: covering.ref, jurisdiction: site.jurisdiction, premises: site.premises, productType: covering.productType, control: covering.control,
+    madeTo: covering.madeTo, manufacturedOn: covering.manufacturedOn, installedOn: covering.installedOn, childrensRoom: opening?.childrensRoom ?? null,
+  }, measurements)
+}
+
+/** The room's child's-room flag as the register holds it, for the covering's record. */
+export async function roomOf(covering: Pick<Covering, 'openingId'>, transaction?: Transaction) {
+  return Opening.findByPk(covering.openingId, { attributes: ['childrensRoom'], transaction })
 }
 
 export class SignOffRefusedError extends Error {
@@ -40,7 +39,7 @@ export class RecordInvalidError extends Error {
 }
 
 export function parseRecord(input: unknown): CoveringRecord {
-  const parsed = coveringRecordSchema.safeParse(input)
+  const parsed = parseCoveringRecord(input)
   if (parsed.success) return parsed.data
   const fields: Record<string, string> = {}
   for (const issue of parsed.error.issues) fields[issue.path.join('.') || '_'] ??= issue.message
@@ -65,6 +64,8 @@ export async function recordInspection(db: Sequelize, args: {
   /** When the visit happened; null dates it now, as it is recorded (inside the covering's lock, so in order). */
   inspectedAt: Date | null
   measurements: Record<string, unknown>
+  /** The record already built and parsed from these measurements (sign-off parses once); built here when absent. */
+  record?: CoveringRecord
   notes?: string | null
   correctsId?: number | null
   clientKey?: string | null
@@ -78,8 +79,7 @@ export async function recordInspection(db: Sequelize, args: {
   /** Register fields the visit changed on the covering, for the activity log. */
   registerChanges?: Record<string, unknown>
 }, outer?: Transaction): Promise<{ inspection: Inspection, result: CheckResult }> {
-  const opening = await Opening.findByPk(args.covering.openingId, { attributes: ['childrensRoom'], transaction: outer })
-  const record = parseRecord(rulebookInput(args.site, args.covering, args.measurements, opening))
+  const record = args.record ?? parseRecord(rulebookInput(args.site, args.covering, args.measurements, await roomOf(args.covering, outer)))
   const work = async (transaction: Transaction) => {
     // One sign-off at a time per covering: two at once would both see no open remedy for a clause and both
     // raise one, or both decide which inspection is the latest from what they read before either committed.

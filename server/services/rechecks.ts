@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
-import { checkRecord, coveringRecordSchema } from '../../rules'
+import { buildRecord, checkRecord, parseCoveringRecord, registerFactsOf } from '../../rules'
 import type { CheckOptions, CoveringRecord } from '../../rules'
 import { Client, Job, Site } from '../models'
 import type { CheckChange, CheckChangeRow, RecheckCounts, RecheckScope, RecheckSummary } from '../../shared/types/jobs'
@@ -19,7 +19,6 @@ import type { Actor } from './scope'
 // inspection up.
 
 export const RECHECK_BATCH = 1000
-const recordKeys = Object.keys(coveringRecordSchema.shape) as Array<keyof CoveringRecord>
 
 interface Params { scope: RecheckScope, scopeId: number | null, ruleSetFixture?: string | null }
 
@@ -68,9 +67,11 @@ interface Row {
  * for a new inspection instead.
  */
 export function recheckRecord(row: Pick<Row, 'record'>): CoveringRecord {
-  const r: Record<string, unknown> = {}
-  for (const k of recordKeys) r[k] = row.record[k] ?? null
-  return r as unknown as CoveringRecord
+  // Built and parsed as a sign-off builds it (rules/build.ts), with the stored record as its own register; a field
+  // added to the record since is null (not recorded).
+  const parsed = parseCoveringRecord(buildRecord(registerFactsOf(row.record), row.record))
+  if (!parsed.success) throw new Error(`stored record cannot be read: ${parsed.error.issues[0]?.path.join('.')}`)
+  return parsed.data
 }
 
 export async function runRecheck(db: Sequelize, ctx: JobContext) {

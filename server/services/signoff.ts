@@ -5,7 +5,7 @@ import { Audit, Covering, Inspection, Photo } from '../models'
 import type { Site } from '../models'
 import type { InspectionCreate } from '../../shared/schemas/inspection'
 import type { Actor } from './scope'
-import { RecordInvalidError, SignOffRefusedError, backdateLimitDays, parseRecord, recordInspection, rulebookInput } from './inspections'
+import { RecordInvalidError, SignOffRefusedError, backdateLimitDays, parseRecord, recordInspection, roomOf, rulebookInput } from './inspections'
 import { logActivity } from './activity'
 
 /** A clientKey already used for another sign-off (another person's, or other measurements). */
@@ -52,8 +52,9 @@ export async function signOff(db: Sequelize, actor: Actor, site: Site, covering:
   if (covering.status === 'removed') throw new SignOffRefusedError('status', 'status: this covering is recorded as removed; add the covering now in place and inspect that one')
   const changes = body.covering ?? {}
   const asChanged = { ...covering.get({ plain: true }), ...changes } as Covering
-  // Measured values first: a wrong number is the first thing the installer must put right.
-  parseRecord(rulebookInput(site, asChanged, body.measurements))
+  // Measured values first: a wrong number is the first thing the installer must put right. Parsed once, here:
+  // the record saved is this one (register data as changed by the visit, the room's flag from the register).
+  const record = parseRecord(rulebookInput(site, asChanged, body.measurements, await roomOf(covering)))
   const photos = body.photoIds.length ? await Photo.findAll({ where: { id: { [Op.in]: body.photoIds }, coveringId: covering.id } }) : []
   if (photos.length !== new Set(body.photoIds).size) throw new SignOffRefusedError('photoIds', 'photoIds: a photo listed is not one of this covering\'s photos')
   // Only a photo that decoded to an image (its pixel size recorded) is evidence of anything.
@@ -81,7 +82,7 @@ export async function signOff(db: Sequelize, actor: Actor, site: Site, covering:
     const changed = Object.keys(changes).length ? await applyCoveringChanges(actor, covering, changes, transaction) : covering
     const { inspection, result } = await recordInspection(db, {
       workspaceId: actor.workspaceId, site, covering: changed, kind: body.correctsId ? 'correction' : body.kind, inspectorId: actor.id,
-      inspectedAt, measurements: body.measurements, notes: body.notes, correctsId: body.correctsId, clientKey: body.clientKey,
+      inspectedAt, measurements: body.measurements, record, notes: body.notes, correctsId: body.correctsId, clientKey: body.clientKey,
       photoIds: photos.map(p => p.id), countedPhotoIds: photos.filter(p => p.widthPx !== null).map(p => p.id), auditId: body.auditId,
       bodySha256: hash, registerChanges: Object.keys(changes).length ? changes : undefined,
     }, transaction)
