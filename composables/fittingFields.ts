@@ -1,5 +1,5 @@
-import { corded, innerCorded, looped } from '~/rules'
-import type { ControlType, Jurisdiction, ProductType, RecordField } from '~/rules'
+import { corded, innerCorded, looped } from '../rules'
+import type { ControlType, Jurisdiction, ProductType, RecordField } from '../rules'
 
 // The cord details the fitting form asks for, in groups, each with the situations it applies to.
 // Lengths are typed in mm or inches, forces in newtons; flags are yes / no / not recorded.

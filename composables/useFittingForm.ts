@@ -16,6 +16,8 @@ export interface FittingForm {
   check: ComputedRef<LiveCheck>
   /** Field messages: what cannot be read, what the schema refuses, and what the server refused. */
   errors: ComputedRef<Record<string, string>>
+  /** Prompts and warnings by field that are not errors: re-measure the loop, a device fixed above the loop. */
+  notices: ComputedRef<Record<string, string>>
   value: (name: string) => DraftValue
   unit: (name: string) => LengthUnit
   set: (name: string, value: DraftValue) => void
@@ -29,6 +31,20 @@ export interface FittingForm {
 }
 
 export const fittingFormKey: InjectionKey<FittingForm> = Symbol('fittingForm')
+
+/** Fields a failing loop clause reads: a device fitted after one of these failed changes what can be pulled out. */
+const loopFields = new Set(['loopPullOutMm', 'loopPerimeterMm', 'lowestCordPointMm', 'tensionDevice', 'operatingCordLengthMm'])
+
+/** The warnings about where a tension device sits, from the measurements as read (mm above the floor). */
+export function deviceNotices(m: Record<string, unknown>): Record<string, string> {
+  const device = m.tensionDeviceHeightMm
+  const lowest = m.lowestCordPointMm
+  if (m.tensionDevice !== true || typeof device !== 'number' || typeof lowest !== 'number' || device <= lowest) return {}
+  return {
+    tensionDeviceHeightMm: `The device is ${device} mm up but the loop reaches down to ${lowest} mm, below it: a device above the loop's lowest point does not hold it taut. `
+      + 'Fix it at the bottom of the loop, pulled taut and eased back about 10 mm so the chain still runs (common practice), then measure both again.',
+  }
+}
 
 /** An earlier inspection's measured values as typed text, to start a correction from. */
 export function valuesFromRecord(record: Record<string, unknown>): Record<string, DraftValue> {
@@ -56,6 +72,8 @@ export function useFittingForm(covering: Ref<CoveringDetail>, premises: Ref<stri
   const groups = computed(() => shownFields(situation.value))
   const fields = computed(() => shownFieldList(situation.value))
   const context = computed<FittingContext>(() => ({ ...covering.value, premises: premises.value }))
+  // Set when a tension device is fitted after a failing loop: the pull-out from before no longer holds.
+  const remeasureLoop = ref(false)
   const unit = (name: string): LengthUnit => draft.value?.units[name] ?? units.unit
   const unitMap = computed(() => Object.fromEntries(fields.value.map(f => [f.name, unit(f.name)])))
   const check = computed(() => liveCheck(context.value, control.value, fields.value, values.value, unitMap.value))
@@ -64,6 +82,13 @@ export function useFittingForm(covering: Ref<CoveringDetail>, premises: Ref<stri
     ...check.value.errors,
     ...Object.fromEntries(Object.entries(draft.value?.serverErrors ?? {}).filter(([k]) => fields.value.some(f => f.name === k))),
   }))
+  const notices = computed(() => {
+    const out = deviceNotices(check.value.measurements)
+    if (remeasureLoop.value && values.value.tensionDevice === true && !values.value.loopPullOutMm) {
+      out.loopPullOutMm = 'Measure the loop again with the tension device in place: pull it out as far as it comes, lay it flat and record the new figure. The figure from before the device was fitted has been cleared.'
+    }
+    return out
+  })
 
   function ensure(): FittingDraft {
     const c = covering.value
@@ -84,13 +109,20 @@ export function useFittingForm(covering: Ref<CoveringDetail>, premises: Ref<stri
   }
 
   const form: FittingForm = {
-    draft, control, jurisdiction, groups, check, errors, signOffBody, ensure,
+    draft, control, jurisdiction, groups, check, errors, notices, signOffBody, ensure,
     value: name => values.value[name] ?? null,
     unit,
     set: (name, value) => {
       const d = ensure()
       // A length keeps the unit it was typed in, even if the preferred unit changes later.
       d.units[name] ??= units.unit
+      const loopFailed = check.value.result?.findings.some(f => f.verdict === 'fail' && f.field !== null && loopFields.has(f.field)) ?? false
+      if (name === 'tensionDevice' && value === true && d.values.tensionDevice !== true && loopFailed && d.values.loopPullOutMm) {
+        // A device changes what a child can pull out: the old pull-out is cleared, and the form asks for it again.
+        store.setValue(d, 'loopPullOutMm', null)
+        remeasureLoop.value = true
+      }
+      if (name === 'loopPullOutMm' && value) remeasureLoop.value = false
       store.setValue(d, name, value)
     },
     setUnit: (name, next) => {

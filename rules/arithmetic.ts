@@ -243,7 +243,7 @@ export function tensionDevicePosition(input: { jurisdiction: Jurisdiction, headH
   else if (eased > head) note = `The loop is shorter than the ${ease} mm ease; no tension device is needed to hold it.`
   else if (shortenLoopByMm > 0) note = `The loop is too long for this window: shorten its hanging length by at least ${shortenLoopByMm} mm.`
   else
-    note = `Fix the device at about ${eased} mm (taut at ${taut} mm, eased ${ease} mm). Heights are from the top of the headrail; the control sits a little lower, so confirm on site.${
+    note = `Fix the device at about ${eased} mm above the floor (taut at ${taut} mm, eased ${ease} mm back up). The chain leaves the head rail a little below its top, so confirm on site.${
       pullTestNeeded ? ` Pull-test it with ${range.holdN} N for 10 s in any direction.` : ''
     }`
   return { tautMm: taut, easedMm: eased, easeMm: ease, withinRange, pullTestNeeded, shortenLoopByMm, note, source: `common practice; ${range.source}` }
@@ -350,6 +350,12 @@ const CLEAT_NOTE: Record<Jurisdiction, string> = {
   EU: 'cleats sit at about this height, where a cord needs no safety device',
 }
 
+/**
+ * The calculator's one reference, said once: every height it gives is above the floor, as the form's fields are
+ * (head rail, lowest cord point, tension device, cleat); a drop is a length hanging down from the top of the head rail.
+ */
+export const HEIGHTS_AND_DROPS = 'Every height here is above the floor, as in the form; a drop is measured down from the top of the head rail.'
+
 /** Every installer figure for one covering, with units and sources, for the calculator panel. */
 export function installerGuide(input: InstallerGuideInput): InstallerGuide {
   const j = input.jurisdiction
@@ -364,7 +370,7 @@ export function installerGuide(input: InstallerGuideInput): InstallerGuide {
   const fig = (value: number | null, unit: Unit, source: string, basis: Basis, note: string): GuideFigure => ({ value, unit, source, basis, note })
   const notes: string[] = [
     'Tautline supports judgement; it does not certify. Check the product’s own instructions.',
-    'Heights are measured from the floor; drops from the top of the headrail.',
+    HEIGHTS_AND_DROPS,
   ]
   let taut: GuideFigure | null = null
   let eased: GuideFigure | null = null

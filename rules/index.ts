@@ -51,6 +51,7 @@ export { describeClause, describeRuleSet, describeRuleSets } from './describe'
 export type { ClauseDescription, RuleSetDescription } from './describe'
 export { advise, fail, missing, notApplicable, pass, requireFlag } from './findings'
 export {
+  HEIGHTS_AND_DROPS,
   inchesToMm,
   installerGuide,
   lowestCleatHeightMm,

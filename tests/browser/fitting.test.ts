@@ -62,10 +62,17 @@ describe('recording a fitting on a phone', () => {
       expect(await length(page, 'Largest loop pulled out').inputValue()).toBe('310')
       expect(await length(page, 'Top of the head rail').inputValue()).toBe('2100')
 
-      // Put it right: a tension device at 900 mm holding the loop taut, pull-tested and locked.
+      // Put it right: a tension device at 900 mm holding the loop taut, pull-tested and locked. Fitted after the
+      // failing check, the device changes what can be pulled out: the old 310 mm is cleared and the form asks again.
       await answer(page, 'Tension device fitted', 'Yes')
+      await page.getByText('Measure the loop again with the tension device in place').waitFor()
+      expect(await length(page, 'Largest loop pulled out').inputValue()).toBe('')
+      // A device above the loop's lowest point does not hold it taut (common practice): the form warns.
+      await length(page, 'Tension device height').fill('1100')
+      await page.getByText(/The device is 1100 mm up but the loop reaches down to 1000 mm/).waitFor()
       await length(page, 'Tension device height').fill('900')
       await length(page, 'Lowest point of any cord or chain').fill('900')
+      expect(await page.getByText(/The device is \d+ mm up/).count()).toBe(0)
       await length(page, 'Largest loop pulled out').fill('20')
       await page.getByRole('textbox', { name: /^Pull test: force held/ }).fill('80')
       await answer(page, 'Cord locked in', 'Yes')
