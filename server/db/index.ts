@@ -7,6 +7,7 @@ import * as fitting from '../migrations/0002-fitting'
 import * as audits from '../migrations/0003-audits'
 import * as reportFiles from '../migrations/0004-report-files'
 import * as jobsImportsRechecks from '../migrations/0005-jobs-imports-rechecks'
+import * as evidenceChain from '../migrations/0009-evidence-chain'
 
 // Plain module (no Nitro auto-imports) so scripts and the server share one way to connect.
 
@@ -38,6 +39,7 @@ const migrations = [
   { name: '0003-audits', ...audits },
   { name: '0004-report-files', ...reportFiles },
   { name: '0005-jobs-imports-rechecks', ...jobsImportsRechecks },
+  { name: '0009-evidence-chain', ...evidenceChain },
 ]
 
 export function migrator(sequelize: Sequelize) {
