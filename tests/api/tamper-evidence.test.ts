@@ -176,7 +176,7 @@ describe('tamper evidence', () => {
     const r = verify()
     expect(r.code, r.out).toBe(0)
 
-    await expect(db.query(`UPDATE evidence_chain_blocks SET row_hashes[1] = repeat('0', 64) WHERE table_name = 'inspections'`)).rejects.toThrow(/cannot be changed/)
+    await expect(db.query(`UPDATE evidence_chain_blocks SET row_hashes[1] = sha256('tampered') WHERE table_name = 'inspections'`)).rejects.toThrow(/cannot be changed/)
     await expect(db.query(`DELETE FROM evidence_chain_blocks WHERE table_name = 'inspections'`)).rejects.toThrow(/cannot be changed/)
     await expect(db.query(`DELETE FROM evidence_chain_heads`)).rejects.toThrow(/cannot be changed/)
   })
@@ -185,7 +185,7 @@ describe('tamper evidence', () => {
     await db.query('BEGIN')
     try {
       await db.query('ALTER TABLE evidence_chain_blocks DISABLE TRIGGER evidence_chain_blocks_immutable')
-      const { rows: [block] } = await db.query(`UPDATE evidence_chain_blocks SET row_hashes[1] = repeat('0', 64)
+      const { rows: [block] } = await db.query(`UPDATE evidence_chain_blocks SET row_hashes[1] = sha256('tampered')
         WHERE id = (SELECT max(id) FROM evidence_chain_blocks WHERE table_name = 'inspections' AND workspace_id = $1) RETURNING row_keys[1] AS k`, [workspaceId])
       const { rows } = await db.query('SELECT table_name, problems::int, row_key FROM tautline_evidence_verify($1) WHERE problem IS NOT NULL', [workspaceId])
       // The recorded hash no longer matches the row, and the block no longer matches its own link.
