@@ -4,7 +4,8 @@ import type { QueryInterface } from 'sequelize'
 // Tamper evidence for the evidence tables. Every inserted row gets a SHA-256 of its content, computed by the
 // database itself (so Sequelize, raw SQL, COPY and anything else that inserts are all covered), and those
 // hashes are chained per table per workspace in evidence_chain_blocks: one block per INSERT/COPY statement
-// and workspace, holding its rows' keys and hashes in key order, each block hashed over the one before it.
+// and workspace, holding its rows' keys and hashes in the order the statement wrote them, each block hashed over
+// the one before it.
 //
 // The hashing happens in a statement-level AFTER INSERT trigger, without any lock. The chaining (taking the
 // next place in the chain) happens in a deferred constraint trigger, at commit: it locks the chains' head rows
@@ -18,15 +19,16 @@ import type { QueryInterface } from 'sequelize'
 // (row_to_json costs less than half of to_jsonb per row, which matters for imports and re-checks.)
 // tautline_evidence_verify() recomputes everything and reports the first row per table that no longer matches.
 
-// The evidence tables and how to find each row's key and workspace. covering_removals is chained when it exists.
-const TABLES: Array<{ table: string, key: string, order: string, workspace: string, join: string }> = [
-  { table: 'inspections', key: 'r.id::text', order: 'r.id', workspace: 'r.workspace_id', join: '' },
-  { table: 'findings', key: 'r.id::text', order: 'r.id', workspace: 'p.workspace_id', join: 'JOIN inspections p ON p.id = r.inspection_id' },
-  { table: 'photos', key: 'r.id::text', order: 'r.id', workspace: 'r.workspace_id', join: '' },
-  { table: 'inspection_photos', key: `r.inspection_id::text || '/' || r.photo_id::text`, order: 'r.inspection_id, r.photo_id', workspace: 'p.workspace_id', join: 'JOIN inspections p ON p.id = r.inspection_id' },
-  { table: 'check_results', key: 'r.id::text', order: 'r.id', workspace: 'p.workspace_id', join: 'JOIN sites p ON p.id = r.site_id' },
-  { table: 'covering_removals', key: 'r.id::text', order: 'r.id', workspace: 'r.workspace_id', join: '' },
-  { table: 'activity_log', key: 'r.id::text', order: 'r.id', workspace: 'r.workspace_id', join: '' },
+// The evidence tables, in report order, and where a table without its own workspace_id finds it (alias p).
+// A row's key is its primary key (inspection_photos: inspection_id/photo_id), read from the catalogue below.
+const TABLES: Array<{ table: string, workspace?: string, join?: string }> = [
+  { table: 'inspections' },
+  { table: 'findings', workspace: 'p.workspace_id', join: 'JOIN inspections p ON p.id = r.inspection_id' },
+  { table: 'photos' },
+  { table: 'inspection_photos', workspace: 'p.workspace_id', join: 'JOIN inspections p ON p.id = r.inspection_id' },
+  { table: 'check_results', workspace: 'p.workspace_id', join: 'JOIN sites p ON p.id = r.site_id' },
+  { table: 'covering_removals', workspace: 'p.workspace_id', join: 'JOIN coverings pc ON pc.id = r.covering_id JOIN sites p ON p.id = pc.site_id' },
+  { table: 'activity_log' },
 ]
 
 const q = (s: string) => `'${s.replace(/'/g, '\'\'')}'`
@@ -53,7 +55,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       PRIMARY KEY (table_name, workspace_id)
     );
 
-    -- One block per statement and workspace: the rows' keys and SHA-256s in key order. seq, prev_hash and hash
+    -- One block per statement and workspace: the rows' keys and SHA-256s, in the statement's order. seq, prev_hash and hash
     -- are filled in when the inserting transaction commits; after that a block never changes.
     CREATE TABLE evidence_chain_blocks (
       id bigserial PRIMARY KEY,
@@ -70,6 +72,8 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       CHECK (cardinality(row_keys) > 0 AND cardinality(row_keys) = cardinality(row_hashes)),
       CHECK ((seq IS NULL) = (hash IS NULL))
     );
+    -- Hashes do not compress: stored out of line as they are.
+    ALTER TABLE evidence_chain_blocks ALTER COLUMN row_hashes SET STORAGE EXTERNAL;
     CREATE INDEX evidence_chain_blocks_unsealed ON evidence_chain_blocks (table_name, workspace_id, id) WHERE seq IS NULL;
 
     -- A row's SHA-256: its table and its canonical content (see above), given as row_to_json(row) rendered under UTC.
@@ -92,12 +96,12 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     BEGIN
       SELECT * INTO c FROM evidence_chain_tables WHERE table_name = tbl;
       IF NOT FOUND THEN RAISE EXCEPTION 'no evidence chain is set up for %', tbl; END IF;
+      -- Both arrays are built in one pass over the same rows, so they stay aligned; the order is the statement's.
       RETURN format($q$
         INSERT INTO evidence_chain_blocks (table_name, workspace_id, row_keys, row_hashes)
-        SELECT %1$L, x.ws, array_agg(x.k ORDER BY x.o), array_agg(x.h ORDER BY x.o)
-        FROM (SELECT %2$s AS ws, %3$s AS k, row_number() OVER (ORDER BY %4$s) AS o, tautline_row_hash(%1$L, row_to_json(r)) AS h
-              FROM %5$I r %6$s) x
-        GROUP BY x.ws $q$, tbl, c.workspace_sql, c.key_sql, c.order_sql, source, c.join_sql);
+        SELECT %1$L, %2$s, array_agg(%3$s), array_agg(tautline_row_hash(%1$L, row_to_json(r)))
+        FROM %4$s r %5$s
+        GROUP BY 2 $q$, tbl, c.workspace_sql, c.key_sql, source, c.join_sql);
     END $$;
 
     -- The transition table is visible only to the trigger function itself, so the statement runs here.
@@ -111,7 +115,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     CREATE FUNCTION tautline_chain_existing(tbl text) RETURNS void LANGUAGE plpgsql
     SET timezone = 'UTC' SET extra_float_digits = 1 AS $$
     BEGIN
-      EXECUTE tautline_chain_rows_sql(tbl, tbl);
+      EXECUTE tautline_chain_rows_sql(tbl, format('(SELECT r.* FROM %I r ORDER BY %s)', tbl, (SELECT order_sql FROM evidence_chain_tables WHERE table_name = tbl)));
     END $$;
 
     -- At commit (deferred): link this transaction's blocks onto their chains. Head rows are locked in
@@ -265,24 +269,39 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       END LOOP;
     END $$;
   `)
+  // Attach the chain to every evidence table there is (covering_removals once it exists), chain the rows already
+  // in it in key order, and make sure none can be emptied with TRUNCATE.
   for (const [position, t] of TABLES.entries()) {
-    await qi.sequelize.query(`INSERT INTO evidence_chain_tables (table_name, position, key_sql, order_sql, workspace_sql, join_sql)
-      VALUES (${q(t.table)}, ${position + 1}, ${q(t.key)}, ${q(t.order)}, ${q(t.workspace)}, ${q(t.join)})`)
-  }
-  // Attach the chain to every evidence table there is, and chain the rows already in it, in key order.
-  const present = await qi.sequelize.query<{ table: string }>(`SELECT table_name AS "table" FROM evidence_chain_tables
-    WHERE to_regclass(table_name) IS NOT NULL ORDER BY position`, { type: QueryTypes.SELECT })
-  for (const { table } of present) {
+    const [found] = await qi.sequelize.query<{ pk: string[] | null, ws: boolean }>(`SELECT
+        (SELECT array_agg(a.attname::text ORDER BY k.ord) FROM pg_index i CROSS JOIN LATERAL unnest(i.indkey) WITH ORDINALITY AS k(attnum, ord)
+           JOIN pg_attribute a ON a.attrelid = i.indrelid AND a.attnum = k.attnum
+         WHERE i.indrelid = to_regclass(:t) AND i.indisprimary) AS pk,
+        EXISTS (SELECT 1 FROM pg_attribute WHERE attrelid = to_regclass(:t) AND attname = 'workspace_id' AND NOT attisdropped) AS ws
+      WHERE to_regclass(:t) IS NOT NULL`, { type: QueryTypes.SELECT, replacements: { t: t.table } })
+    if (!found) continue
+    if (!found.pk?.length) throw new Error(`${t.table} has no primary key to name its rows by`)
+    const key = found.pk.map(c => `r.${c}::text`).join(` || '/' || `)
+    const order = found.pk.map(c => `r.${c}`).join(', ')
+    const [workspace, join] = found.ws ? ['r.workspace_id', ''] : [t.workspace!, t.join!]
     await qi.sequelize.query(`
-      CREATE TRIGGER ${table}_chain AFTER INSERT ON ${table} REFERENCING NEW TABLE AS new_rows
+      INSERT INTO evidence_chain_tables (table_name, position, key_sql, order_sql, workspace_sql, join_sql)
+        VALUES (${q(t.table)}, ${position + 1}, ${q(key)}, ${q(order)}, ${q(workspace)}, ${q(join)});
+      CREATE TRIGGER ${t.table}_chain AFTER INSERT ON ${t.table} REFERENCING NEW TABLE AS new_rows
         FOR EACH STATEMENT EXECUTE FUNCTION tautline_chain_statement();
-      SELECT tautline_chain_existing(${q(table)});
+      SELECT tautline_chain_existing(${q(t.table)});
+      DO $$ BEGIN
+        IF NOT EXISTS (SELECT 1 FROM pg_trigger WHERE tgrelid = ${q(t.table)}::regclass AND tgname = ${q(`${t.table}_no_truncate`)}) THEN
+          CREATE TRIGGER ${t.table}_no_truncate BEFORE TRUNCATE ON ${t.table} EXECUTE FUNCTION tautline_refuse_change();
+        END IF;
+      END $$;
     `)
   }
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
   for (const t of TABLES) await qi.sequelize.query(`DO $$ BEGIN IF to_regclass(${q(t.table)}) IS NOT NULL THEN DROP TRIGGER IF EXISTS ${t.table}_chain ON ${t.table}; END IF; END $$`)
+  // The TRUNCATE refusals this migration added (0001 and 0005 made the others).
+  await qi.sequelize.query(`DROP TRIGGER IF EXISTS activity_log_no_truncate ON activity_log; DROP TRIGGER IF EXISTS inspection_photos_no_truncate ON inspection_photos;`)
   await qi.sequelize.query(`
     DROP TABLE IF EXISTS evidence_chain_blocks, evidence_chain_heads, evidence_chain_tables CASCADE;
     DROP FUNCTION IF EXISTS tautline_evidence_verify(integer), tautline_chain_seal(), tautline_chain_block_guard(), tautline_chain_statement(),
