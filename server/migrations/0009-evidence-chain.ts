@@ -13,10 +13,11 @@ import type { QueryInterface } from 'sequelize'
 // import therefore never holds a chain while it runs (a sign-off in the same workspace never waits for it),
 // and two transactions can never deadlock over chains.
 //
-// A row's canonical content is json_strip_nulls(row_to_json(row)) rendered as text under UTC (see
-// tautline_row_hash): columns in table order, the functions pin the time zone, and leaving out null columns
-// means a later migration that adds a nullable column to an evidence table leaves every hash as it was.
-// (row_to_json costs less than half of to_jsonb per row, which matters for imports and re-checks.)
+// A row's canonical content is its record text, row::text, with trailing empty (null) fields dropped: columns in
+// table order, quoted where needed, so unambiguous. The functions pin every setting the text depends on (time zone,
+// date style, float digits, bytea and interval output), so any session gets the same text; and dropping trailing
+// nulls means a later migration that adds a nullable column to an evidence table leaves every hash as it was.
+// (The record text costs a quarter of to_jsonb or row_to_json per row, which matters for imports and re-checks.)
 // tautline_evidence_verify() recomputes everything and reports the first row per table that no longer matches.
 
 // The evidence tables, in report order, and where a table without its own workspace_id finds it (alias p).
@@ -30,6 +31,12 @@ const TABLES: Array<{ table: string, workspace?: string, join?: string }> = [
   { table: 'covering_removals', workspace: 'p.workspace_id', join: 'JOIN coverings pc ON pc.id = r.covering_id JOIN sites p ON p.id = pc.site_id' },
   { table: 'activity_log' },
 ]
+
+// Every setting a row's text depends on, pinned on each function that renders rows.
+const PINNED = `SET timezone = 'UTC' SET datestyle = 'ISO, YMD' SET intervalstyle = 'postgres' SET extra_float_digits = 1 SET bytea_output = 'hex'`
+// A row's canonical text: the record with trailing empty fields dropped. A field that ends in ',' or ')' is always
+// quoted, so only empty fields and the closing parenthesis are trimmed.
+const ROW_TEXT = `rtrim(r::text, ',)') || ')'`
 
 const q = (s: string) => `'${s.replace(/'/g, '\'\'')}'`
 
@@ -76,9 +83,9 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     ALTER TABLE evidence_chain_blocks ALTER COLUMN row_hashes SET STORAGE EXTERNAL;
     CREATE INDEX evidence_chain_blocks_unsealed ON evidence_chain_blocks (table_name, workspace_id, id) WHERE seq IS NULL;
 
-    -- A row's SHA-256: its table and its canonical content (see above), given as row_to_json(row) rendered under UTC.
-    CREATE FUNCTION tautline_row_hash(tbl text, content json) RETURNS bytea LANGUAGE sql IMMUTABLE PARALLEL SAFE AS $$
-      SELECT sha256(convert_to(tbl || E'\\n' || json_strip_nulls(content)::text, 'UTF8'))
+    -- A row's SHA-256: its table and its canonical content (see above), given as ${ROW_TEXT} with the settings pinned.
+    CREATE FUNCTION tautline_row_hash(tbl text, content text) RETURNS bytea LANGUAGE sql IMMUTABLE PARALLEL SAFE AS $$
+      SELECT sha256(convert_to(tbl || E'\\n' || content, 'UTF8'))
     $$;
 
     -- A block's hash: the previous block's hash, its place in the chain and every row's key and hash in order.
@@ -99,21 +106,21 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       -- Both arrays are built in one pass over the same rows, so they stay aligned; the order is the statement's.
       RETURN format($q$
         INSERT INTO evidence_chain_blocks (table_name, workspace_id, row_keys, row_hashes)
-        SELECT %1$L, %2$s, array_agg(%3$s), array_agg(tautline_row_hash(%1$L, row_to_json(r)))
+        SELECT %1$L, %2$s, array_agg(%3$s), array_agg(tautline_row_hash(%1$L, ${ROW_TEXT}))
         FROM %4$s r %5$s
         GROUP BY 2 $q$, tbl, c.workspace_sql, c.key_sql, source, c.join_sql);
     END $$;
 
     -- The transition table is visible only to the trigger function itself, so the statement runs here.
     CREATE FUNCTION tautline_chain_statement() RETURNS trigger LANGUAGE plpgsql
-    SET timezone = 'UTC' SET extra_float_digits = 1 AS $$
+    ${PINNED} AS $$
     BEGIN
       EXECUTE tautline_chain_rows_sql(TG_TABLE_NAME, 'new_rows');
       RETURN NULL;
     END $$;
 
     CREATE FUNCTION tautline_chain_existing(tbl text) RETURNS void LANGUAGE plpgsql
-    SET timezone = 'UTC' SET extra_float_digits = 1 AS $$
+    ${PINNED} AS $$
     BEGIN
       EXECUTE tautline_chain_rows_sql(tbl, format('(SELECT r.* FROM %I r ORDER BY %s)', tbl, (SELECT order_sql FROM evidence_chain_tables WHERE table_name = tbl)));
     END $$;
@@ -163,7 +170,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     -- its content changed, it is gone, it was never chained, or its block's link is broken.
     CREATE FUNCTION tautline_evidence_verify(only_workspace integer DEFAULT NULL)
     RETURNS TABLE (table_name text, rows_checked bigint, blocks bigint, problems bigint, workspace_id integer, row_key text, problem text)
-    LANGUAGE plpgsql STABLE SET timezone = 'UTC' SET extra_float_digits = 1 AS $$
+    LANGUAGE plpgsql STABLE ${PINNED} AS $$
     DECLARE
       c evidence_chain_tables;
       b record;
@@ -234,7 +241,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
             FROM evidence_chain_blocks bl, unnest(bl.row_keys, bl.row_hashes) WITH ORDINALITY AS u(k, h, o)
             WHERE bl.table_name = %1$L AND ($1 IS NULL OR bl.workspace_id = $1)
           ), actual AS (
-            SELECT %2$s AS ws, %3$s AS k, tautline_row_hash(%1$L, row_to_json(r)) AS h
+            SELECT %2$s AS ws, %3$s AS k, tautline_row_hash(%1$L, ${ROW_TEXT}) AS h
             FROM %1$I r %4$s
             WHERE $1 IS NULL OR %2$s = $1
           ), compared AS (
@@ -305,6 +312,6 @@ export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.sequelize.query(`
     DROP TABLE IF EXISTS evidence_chain_blocks, evidence_chain_heads, evidence_chain_tables CASCADE;
     DROP FUNCTION IF EXISTS tautline_evidence_verify(integer), tautline_chain_seal(), tautline_chain_block_guard(), tautline_chain_statement(),
-      tautline_chain_rows_sql(text, text), tautline_chain_existing(text), tautline_block_hash(text, text, integer, bigint, text[], bytea[]), tautline_row_hash(text, json);
+      tautline_chain_rows_sql(text, text), tautline_chain_existing(text), tautline_block_hash(text, text, integer, bigint, text[], bytea[]), tautline_row_hash(text, text);
   `)
 }
