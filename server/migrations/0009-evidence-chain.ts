@@ -96,7 +96,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     $$;
 
     -- The statement that hashes the rows one statement inserted (its transition table new_rows, or the whole
-    -- table for the first chaining) and groups them into one unsealed block per workspace. Run it under UTC.
+    -- table for the first chaining) and groups them into one unsealed block per workspace. Run it with the settings pinned.
     CREATE FUNCTION tautline_chain_rows_sql(tbl text, source text) RETURNS text LANGUAGE plpgsql STABLE AS $$
     DECLARE
       c evidence_chain_tables;
