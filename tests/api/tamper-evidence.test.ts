@@ -152,7 +152,7 @@ describe('tamper evidence', () => {
     }
   })
 
-  it('chains raw SQL from any time zone, COPY, and concurrent writers without forking, and refuses to change a sealed block', async () => {
+  it('chains raw SQL from any time zone, COPY, and concurrent writers and sign-offs without forking, and refuses to change a sealed block', async () => {
     // Two transactions insert into the same chain and commit in the opposite order to the one they wrote in.
     const [a, b] = [await database(), await database()]
     try {
@@ -171,8 +171,18 @@ describe('tamper evidence', () => {
       await a.end()
       await b.end()
     }
-    const { rows } = await db.query(`SELECT seq FROM evidence_chain_blocks WHERE table_name = 'activity_log' AND workspace_id = $1 ORDER BY seq`, [workspaceId])
-    expect(rows.map(r => Number(r.seq))).toEqual(rows.map((_, i) => i + 1))
+    // Sign-offs at once, on several coverings and twice on one, each writing four chains at commit.
+    const { rows: coverings } = await db.query(`SELECT c.id FROM coverings c JOIN sites s ON s.id = c.site_id WHERE s.workspace_id = $1 ORDER BY c.id LIMIT 5`, [workspaceId])
+    const installer = await signIn(accounts.installer)
+    const photoOf = new Map<number, number>()
+    for (const c of coverings) photoOf.set(c.id, (await uploadPhoto(installer, c.id, 'tension_device')).id)
+    const answers = await Promise.all([...coverings, coverings[0]].map((c, i) => installer.post(`/api/coverings/${c.id}/inspections`,
+      { kind: 'fitting', measurements, photoIds: [photoOf.get(c.id)], clientKey: `chain-burst-${Date.now()}-${i}` })))
+    expect(answers.map(a => a.status)).toEqual(answers.map(() => 201))
+    for (const table of ['activity_log', 'inspections', 'findings', 'photos', 'inspection_photos']) {
+      const { rows } = await db.query(`SELECT seq FROM evidence_chain_blocks WHERE table_name = $2 AND workspace_id = $1 ORDER BY seq`, [workspaceId, table])
+      expect(rows.map(r => Number(r.seq)), table).toEqual(rows.map((_, i) => i + 1))
+    }
     const r = verify()
     expect(r.code, r.out).toBe(0)
 
