@@ -13,7 +13,8 @@ const fields = ['name', 'ref', 'email', 'password', 'siteId', 'unitId', 'opening
 // Wrong types, absurd sizes and lengths; an unknown choice only where the field is a choice.
 const badValues: unknown[] = [{ nested: { deeper: true } }, 'x'.repeat(100_000), -1, 1e15, [], true]
 const choiceFields = new Set(['kind', 'status', 'scope', 'role', 'productType', 'control', 'jurisdiction'])
-const rawBodies = ['not json{', '{"a":', '[]', 'null', '"text"', '12', 'true', '{"name": "\u0000"']
+const rawBodies = ['not json{', '{"a":', '[]', 'null', '"text"', '12', 'true', '{"name": "\u0000"', '-0.00004646480726427454', '584665965305162760000',
+  '{"__proto__": {"admin": true}}', '{"name": "x", "constructor": {"prototype": {}}}', '{"ref": "A", "\\u005f_proto__": 1}']
 const badQueries = ['page=-1', 'pageSize=abc', 'pageSize=100000', 'sort=password', `q=${'x'.repeat(5000)}`, 'page=1e99', 'siteId=abc', 'status=zzz']
 // Routes whose body is ignored or that end the caller's session; their body variants prove nothing.
 const bodiless = new Set(['POST /api/auth/logout', 'POST /api/sites/:id/audits'])
