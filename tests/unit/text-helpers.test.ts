@@ -44,7 +44,7 @@ describe('ids and whole numbers', () => {
     expect(idValue('siteId').parse(42)).toBe(42)
     for (const bad of [true, false, '', ' 1', '1e3', '+1', '-1', '0x10', 1.5, 0, null, [1], '99999999999']) {
       expect(idValue('siteId').safeParse(bad).success, JSON.stringify(bad)).toBe(false)
-      expect(wholeNumber('page').pipe(idValue('page')).safeParse(bad).success, JSON.stringify(bad)).toBe(false)
+      if (bad !== 0) expect(wholeNumber('page').safeParse(bad).success, JSON.stringify(bad)).toBe(false)
     }
   })
 })
