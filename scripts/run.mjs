@@ -353,13 +353,23 @@ async function main() {
     tsx(`${command}.ts`, process.argv.slice(3), env)
     return
   }
+  if (command === 'verify') {
+    // Only PostgreSQL is needed; the script's own exit code (1 = a chain is broken) is passed on.
+    ensurePackages()
+    const profile = profiles[process.env.TAUTLINE_PROFILE ?? 'dev']
+    if (!profile) fail(`unknown TAUTLINE_PROFILE ${process.env.TAUTLINE_PROFILE}: use dev or test`)
+    const url = process.env.DATABASE_URL ?? await ensurePostgres(join(root, '.data', process.env.TAUTLINE_PROFILE ?? 'dev'), profile.pgPort)
+    const r = spawnSync(join(root, 'node_modules', '.bin', 'tsx'), [join(root, 'scripts', 'verify.ts'), ...process.argv.slice(3)],
+      { stdio: 'inherit', cwd: root, env: { ...process.env, DATABASE_URL: url } })
+    process.exit(r.status ?? 1)
+  }
   if (command === 'services') {
     ensurePackages()
     const { env } = await services(process.argv[3] ?? 'dev')
     for (const k of ['DATABASE_URL', 'S3_ENDPOINT', 'S3_BUCKET', 'SMTP_URL', 'MAIL_DIR']) if (env[k]) process.stdout.write(`${k}=${env[k]}\n`)
     return
   }
-  fail(`unknown command ${command}: use start, test, stop, services, backup or restore`)
+  fail(`unknown command ${command}: use start, test, stop, services, backup, restore or verify`)
 }
 
 main().catch(err => fail(err?.stack ?? String(err)))

@@ -10,6 +10,7 @@ import * as jobsImportsRechecks from '../migrations/0005-jobs-imports-rechecks'
 import * as mailAndSignIn from '../migrations/0006-mail-and-sign-in'
 import * as photoDecodedSize from '../migrations/0007-photo-decoded-size'
 import * as evidenceRules from '../migrations/0008-evidence-rules'
+import * as evidenceChain from '../migrations/0009-evidence-chain'
 
 // Plain module (no Nitro auto-imports) so scripts and the server share one way to connect.
 
@@ -44,6 +45,7 @@ const migrations = [
   { name: '0006-mail-and-sign-in', ...mailAndSignIn },
   { name: '0007-photo-decoded-size', ...photoDecodedSize },
   { name: '0008-evidence-rules', ...evidenceRules },
+  { name: '0009-evidence-chain', ...evidenceChain },
 ]
 
 export function migrator(sequelize: Sequelize) {

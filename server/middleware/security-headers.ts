@@ -1,9 +1,10 @@
-// Security headers on every response. Scripts and styles come only from this origin
-// ('unsafe-inline' for the styles and the state script Nuxt inlines into the page).
+// Security headers on every response. Scripts come only from this origin: no inline script runs unless it
+// carries the per-response nonce that server/plugins/csp-nonce.ts gives the few tags Nuxt inlines into a page.
+// Styles keep 'unsafe-inline': Vue writes style attributes (bound :style) that no nonce can cover.
 export default defineEventHandler((event) => {
   setResponseHeaders(event, {
     'Content-Security-Policy': [
-      `default-src 'self'`, `script-src 'self' 'unsafe-inline'`, `style-src 'self' 'unsafe-inline'`,
+      `default-src 'self'`, `script-src 'self'`, `style-src 'self' 'unsafe-inline'`,
       `img-src 'self' data: blob:`, `font-src 'self'`, `connect-src 'self'`, `frame-ancestors 'none'`,
       `base-uri 'self'`, `form-action 'self'`, `object-src 'none'`,
     ].join('; '),

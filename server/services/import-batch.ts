@@ -20,6 +20,10 @@ type Counted = 'created' | 'updated' | 'unchanged'
 interface SiteState {
   id: number | null
   ref: string
+  /**
+   * The ref is taken by a site of another client in the workspace. Such a site is kept as if it did not exist
+   * (no id, no values), so every answer about it reads as for a new ref; only creating it is refused.
+   */
   foreign: boolean
   name: string | null
   address: string | null
@@ -68,6 +72,8 @@ function findingText(x: Finding) {
   }
   return text
 }
+/** The answer for a new site whose ref is already taken in the workspace (by a site this import may not see). */
+const SITE_REF_UNAVAILABLE = (ref: string) => `${ref} cannot be used for a new site; choose another reference for it`
 const emptyCounts = (): ChangeCounts => ({ created: 0, updated: 0, unchanged: 0 })
 
 /** Rulebook messages name camelCase fields; the person reading them knows the template's columns. */
@@ -128,9 +134,10 @@ export class ImportBatcher {
       const byRef = new Map(found.map(s => [s.ref, s]))
       for (const ref of newSites) {
         const s = byRef.get(ref)
-        this.sites.set(ref, s
-          ? { id: s.id, ref, foreign: s.clientId !== this.job.clientId, name: s.name, address: s.address, jurisdiction: s.jurisdiction, premises: s.premises, row: null, counted: null }
-          : { id: null, ref, foreign: false, name: null, address: null, jurisdiction: null, premises: null, row: null, counted: null })
+        const own = s && s.clientId === this.job.clientId ? s : null
+        this.sites.set(ref, own
+          ? { id: own.id, ref, foreign: false, name: own.name, address: own.address, jurisdiction: own.jurisdiction, premises: own.premises, row: null, counted: null }
+          : { id: null, ref, foreign: !!s, name: null, address: null, jurisdiction: null, premises: null, row: null, counted: null })
       }
     }
     const unitKeys = new Map<string, [number, string]>()
@@ -186,10 +193,6 @@ export class ImportBatcher {
   private planRow(row: number, r: ImportRow, coveringsFound: Map<string, CoveringFound>, problems: RowProblem[]): CoveringPlan | null {
     const siteRef = r.site_ref as string
     const site = this.sites.get(siteRef)!
-    if (site.foreign) {
-      problems.push({ column: 'site_ref', message: `site ${siteRef} belongs to another client; rows may only name this client's sites` })
-      return null
-    }
     const siteChanges: Record<string, string> = {}
     for (const [column, key] of siteFields) {
       const v = r[column] as string | null
@@ -201,6 +204,11 @@ export class ImportBatcher {
     if (site.id === null) {
       for (const [column, key] of siteFields) {
         if (site[key] === null && siteChanges[key] === undefined) problems.push({ column, message: `is empty; it is needed to create site ${siteRef}` })
+      }
+      // Refs are unique in the workspace, so another client's ref cannot become a site of this client. The answer
+      // says only that the ref cannot be used, never whose it is or what the site holds.
+      if (site.foreign && siteFields.every(([, key]) => site[key] !== null || siteChanges[key] !== undefined)) {
+        problems.push({ column: 'site_ref', message: SITE_REF_UNAVAILABLE(siteRef) })
       }
     }
     const unitKey = `${siteRef}\t${r.unit_ref}`

@@ -6,7 +6,8 @@ import type { ZodType } from 'zod'
  */
 export function validateWith<T>(schema: ZodType<T>) {
   return (input: unknown): T => {
-    const result = schema.safeParse(input ?? {})
+    // No body at all reads as an empty object; a body of JSON null is a body, and not an object.
+    const result = schema.safeParse(input === undefined ? {} : input)
     if (result.success) return result.data
     const fields: Record<string, string> = {}
     for (const issue of result.error.issues) {

@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { controlTypes, coveringRecordSchema, deviceFixings, jurisdictions, madeToValues, premisesTypes, productTypes } from '../../rules'
 import type { RecordField } from '../../rules'
-import { listQuerySchema } from './common'
+import { idValue, listQuerySchema, plainString } from './common'
 
 // The import template: its columns, how each cell is read, and the row schema. The page, the
 // README table, the template download and the import job all read this one list.
@@ -116,6 +116,8 @@ export type ImportColumnName = string
 
 type Cell<T> = { value: T } | { error: string }
 const refPattern = /^[\w.\-/ #]+$/u
+// eslint-disable-next-line no-control-regex
+const controlCharacter = /[\u0000-\u001F\u007F]/
 const quote = (raw: string) => `“${raw.length > 40 ? `${raw.slice(0, 40)}…` : raw}”`
 const DAYS = [31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31]
 
@@ -171,6 +173,7 @@ export function readCell(column: ImportColumn, input: string | undefined): Cell<
       if (raw.length > 60) return { error: 'is longer than 60 characters' }
       return refPattern.test(raw) ? { value: raw } : { error: `${quote(raw)} may hold letters, digits, spaces and . - / # only` }
     case 'text':
+      if (controlCharacter.test(raw)) return { error: 'holds a line break or another control character; keep the cell to plain text on one line' }
       return raw.length > column.maxLength! ? { error: `is longer than ${column.maxLength} characters` } : { value: raw }
     case 'enum': return readEnum(column, raw)
     case 'length':
@@ -294,7 +297,7 @@ const yesNo = z.enum(['true', 'false', '1', '0', 'yes', 'no', 'on'], { error: 's
 export const importFormSchema = z.object({
   mode: z.enum(importModes, { error: 'mode must be dry-run or commit' }).default('dry-run'),
   skipInvalid: yesNo.default(false),
-  clientId: z.coerce.number({ error: 'clientId must be a number' }).int().positive('clientId must be positive').max(2_147_483_647).optional(),
+  clientId: idValue('clientId').optional(),
 })
 export const importCommitSchema = z.object({
   skipInvalid: z.boolean({ error: 'skipInvalid must be true or false' }).default(false),
@@ -303,6 +306,6 @@ export const importListQuery = listQuerySchema(['createdAt', 'fileName', 'status
   mode: z.enum(['dry_run', 'commit'], { error: 'mode must be dry_run or commit' }).optional(),
 })
 export const importErrorsQuery = listQuerySchema(['row'], 'row').extend({
-  column: z.string().trim().max(60).optional(),
+  column: plainString('column').trim().max(60, 'column is at most 60 characters').optional(),
 })
 export type ImportForm = z.infer<typeof importFormSchema>

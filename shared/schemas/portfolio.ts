@@ -1,10 +1,11 @@
 import { z } from 'zod'
-import { listQuerySchema } from './common'
+import { idValue, listQuerySchema, multilineText } from './common'
 import { verdicts } from './register'
 
 // The property manager's portfolio: units and coverings filtered by site, verdict and due date,
 // and the request for an audit.
-const idOf = (field: string) => z.coerce.number({ error: `${field} must be a number` }).int().positive(`${field} must be positive`).max(2_147_483_647, `${field} is out of range`)
+// Ids are whole numbers (or their digits in a query string), never coerced from true or ''.
+const idOf = idValue
 
 /** Coverings due within this many days count as due soon. */
 export const DUE_SOON_DAYS = 30
@@ -29,6 +30,6 @@ export const auditRequestSchema = z.object({
   siteIds: z.array(idOf('siteIds'), { error: 'siteIds must be a list of site ids' }).min(1, 'siteIds: choose at least one site').max(50, 'siteIds: at most 50 sites'),
   unitIds: z.array(idOf('unitIds'), { error: 'unitIds must be a list of unit ids' }).max(200, 'unitIds: at most 200 units').default([]),
   preferredFrom: z.iso.date({ error: 'preferredFrom is a date, YYYY-MM-DD' }).nullish().transform(v => v ?? null),
-  message: z.string().trim().max(2000, 'message is at most 2000 characters').nullish().transform(v => v || null),
+  message: multilineText(2000, 'message'),
 })
 export type AuditRequest = z.infer<typeof auditRequestSchema>

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { controlTypes, jurisdictions, madeToValues, premisesTypes, productTypes } from '../../rules'
-import { idValue, listQuerySchema, optionalText, refText, requiredText, someFieldOf } from './common'
+import { idValue, listQuerySchema, multilineText, optionalText, refText, requiredText, someFieldOf } from './common'
 import { emailSchema } from './auth'
 
 // Create and update bodies for the register: clients, sites, units, openings, coverings.
@@ -27,7 +27,7 @@ export const siteCreateSchema = z.object({
   address: requiredText(300, 'address'),
   jurisdiction: enumOf(jurisdictions, 'jurisdiction'),
   premises: enumOf(premisesTypes, 'premises'),
-  notes: optionalText(2000, 'notes'),
+  notes: multilineText(2000, 'notes'),
 })
 export const sitePatchSchema = someFieldOf(siteCreateSchema.omit({ clientId: true }).partial())
 export const siteListQuery = listQuerySchema(['name', 'ref', 'jurisdiction', 'updatedAt', 'failing'], 'name').extend({
@@ -41,7 +41,7 @@ export const unitCreateSchema = z.object({
   ref: refText('ref'),
   name: optionalText(120, 'name'),
   floor: optionalText(40, 'floor'),
-  notes: optionalText(2000, 'notes'),
+  notes: multilineText(2000, 'notes'),
 })
 export const unitPatchSchema = someFieldOf(unitCreateSchema.omit({ siteId: true }).partial())
 export const unitListQuery = listQuerySchema(['ref', 'name', 'createdAt'], 'ref').extend({ siteId: idOf('siteId').optional() })
@@ -55,7 +55,7 @@ const openingFields = z.object({
   childrensRoom: z.boolean({ error: 'childrensRoom must be true or false' }),
   recessWidthMm: mmOf('recessWidthMm'),
   recessHeightMm: mmOf('recessHeightMm'),
-  notes: optionalText(2000, 'notes'),
+  notes: multilineText(2000, 'notes'),
 })
 export const openingCreateSchema = openingFields.extend({
   kind: openingFields.shape.kind.default('window'),

@@ -76,7 +76,12 @@ describe('backup and restore', () => {
     }
     // The evidence triggers come back too.
     await expect(restored.query(`UPDATE inspections SET verdict = 'compliant'`)).rejects.toThrow(/evidence/)
+    // So does the tamper-evidence chain: the restored register verifies clean, and goes on chaining new rows.
+    await restored.query(`INSERT INTO activity_log (workspace_id, action, entity) SELECT id, 'note.added', 'site' FROM workspaces`)
     await restored.end()
+    const verified = tsx('scripts/verify.ts', [], { DATABASE_URL: restoreUrl })
+    expect(verified.status, verified.stdout + verified.stderr).toBe(0)
+    expect(verified.stdout).toMatch(/evidence chain intact \(every workspace\)/)
   })
 
   it('refuses to restore over a database that has tables', () => {

@@ -13,7 +13,8 @@ const fields = ['name', 'ref', 'email', 'password', 'siteId', 'unitId', 'opening
 // Wrong types, absurd sizes and lengths; an unknown choice only where the field is a choice.
 const badValues: unknown[] = [{ nested: { deeper: true } }, 'x'.repeat(100_000), -1, 1e15, [], true]
 const choiceFields = new Set(['kind', 'status', 'scope', 'role', 'productType', 'control', 'jurisdiction'])
-const rawBodies = ['not json{', '{"a":', '[]', 'null', '"text"', '12', 'true', '{"name": "\u0000"']
+const rawBodies = ['not json{', '{"a":', '[]', 'null', '"text"', '12', 'true', '{"name": "\u0000"', '-0.00004646480726427454', '584665965305162760000',
+  '{"__proto__": {"admin": true}}', '{"name": "x", "constructor": {"prototype": {}}}', '{"ref": "A", "\\u005f_proto__": 1}']
 const badQueries = ['page=-1', 'pageSize=abc', 'pageSize=100000', 'sort=password', `q=${'x'.repeat(5000)}`, 'page=1e99', 'siteId=abc', 'status=zzz']
 // Routes whose body is ignored or that end the caller's session; their body variants prove nothing.
 const bodiless = new Set(['POST /api/auth/logout', 'POST /api/sites/:id/audits'])
@@ -109,6 +110,30 @@ async function campaign(key: string) {
   await send(client, key, 'xml', method, path, '<site><name>x</name></site>', { 'content-type': 'application/xml' })
   await send(client, key, 'broken multipart', method, path, '--xyz\r\nContent-Disposition: form-data; name="file"\r\n\r\nnot closed', { 'content-type': 'multipart/form-data; boundary=xyz' })
 }
+
+describe('a body of JSON null', () => {
+  // null is a body, and not an object: it must not read as "no body", which would let a route whose fields are
+  // all optional (closing an audit, e-mailing a report) act on it.
+  it('is refused naming body, and nothing is sent or written', async () => {
+    const db2 = await database()
+    const ids = await fixtureIds(db2)
+    const officer = await signIn(accounts.officer)
+    const opened = await officer.post(`/api/sites/${ids.own.site}/audits`, {})
+    expect([200, 201]).toContain(opened.status)
+    const tally = async () => (await db2.query(`SELECT (SELECT count(*) FROM report_dispatches)::int AS sent, (SELECT count(*) FROM activity_log)::int AS log,
+      (SELECT status FROM audits WHERE id = $1) AS audit`, [opened.body.id])).rows[0]
+    const before = await tally()
+    for (const path of [`/api/audits/${opened.body.id}/close`, `/api/sites/${ids.own.site}/report/email`]) {
+      for (const type of ['application/json', 'application/json; charset=utf-8']) {
+        const r = await officer.request('POST', path, 'null', { 'content-type': type })
+        expect(r.status, `${path} ${type}: ${JSON.stringify(r.body)}`).toBe(400)
+        expect(r.body.data?.fields?.body, `${path} ${type}: ${JSON.stringify(r.body)}`).toBe('must be a JSON object')
+      }
+    }
+    expect(await tally()).toEqual(before)
+    await db2.end()
+  })
+})
 
 describe('malformed CSV files', () => {
   // A file in another encoding, binary data or broken quoting is refused when it is sent, naming `file` and the

@@ -1,9 +1,10 @@
 import { execFile } from 'node:child_process'
-import { randomBytes } from 'node:crypto'
+import { createHash, randomBytes } from 'node:crypto'
 import { rm, writeFile } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { promisify } from 'node:util'
+import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3'
 import { parse } from 'csv-parse/sync'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type pg from 'pg'
@@ -57,13 +58,21 @@ const hoursAgo = (h: number) => new Date(Date.now() - h * 3_600_000).toISOString
 async function undecodedPhoto(coveringId: number, kind: string) {
   const { rows: [c] } = await db.query('SELECT c.site_id, s.workspace_id FROM coverings c JOIN sites s ON s.id = c.site_id WHERE c.id = $1', [coveringId])
   const uploader = await db.query('SELECT id FROM users WHERE email = $1', [accounts.installer])
+  // Its bytes are stored like any photo's (backups copy every photo's object), but the row never recorded a decoded size.
+  const bytes = randomBytes(1234)
+  const objectKey = `legacy/${randomBytes(8).toString('hex')}.jpg`
+  const s3 = new S3Client({
+    endpoint: process.env.S3_ENDPOINT, region: process.env.S3_REGION ?? 'us-east-1', forcePathStyle: true,
+    credentials: { accessKeyId: process.env.S3_ACCESS_KEY_ID ?? 'S3RVER', secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? 'S3RVER' },
+  })
+  await s3.send(new PutObjectCommand({ Bucket: process.env.S3_BUCKET ?? 'tautline-photos', Key: objectKey, Body: bytes, ContentType: 'image/jpeg' }))
   // New rows must carry a decoded size (photos_decoded_size); an older row is made as it was before that check.
   await db.query('BEGIN')
   try {
     await db.query('ALTER TABLE photos DROP CONSTRAINT photos_decoded_size')
     const { rows: [p] } = await db.query(`INSERT INTO photos (workspace_id, site_id, covering_id, kind, object_key, content_type, size_bytes, sha256, uploaded_by, width_px, height_px)
       VALUES ($1, $2, $3, $4, $5, 'image/jpeg', 1234, $6, $7, NULL, NULL) RETURNING id`,
-    [c.workspace_id, c.site_id, coveringId, kind, `legacy/${randomBytes(8).toString('hex')}.jpg`, randomBytes(32).toString('hex'), uploader.rows[0].id])
+    [c.workspace_id, c.site_id, coveringId, kind, objectKey, createHash('sha256').update(bytes).digest('hex'), uploader.rows[0].id])
     await db.query(`ALTER TABLE photos ADD CONSTRAINT photos_decoded_size
       CHECK (width_px IS NOT NULL AND height_px IS NOT NULL AND width_px > 0 AND height_px > 0) NOT VALID`)
     await db.query('COMMIT')

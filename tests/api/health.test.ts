@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
-import { ApiClient, accounts } from '../support/api'
+import { ApiClient, accounts, signIn } from '../support/api'
 
 describe('health and request logs', () => {
   it('reports the database, photo storage and mail relay without a session and without secrets', async () => {
@@ -9,6 +9,15 @@ describe('health and request logs', () => {
     expect(r.body).toMatchObject({ status: 'ok', database: 'up', storage: 'up', mail: 'up' })
     const text = JSON.stringify(r.body)
     for (const secret of ['postgres://', '127.0.0.1', 'S3RVER', process.env.NUXT_SESSION_PASSWORD ?? 'no-secret']) expect(text).not.toContain(secret)
+    expect(r.body).not.toHaveProperty('evidence')
+  })
+
+  it('gives a signed-in admin the tamper-evidence line for their own workspace', async () => {
+    const r = await (await signIn(accounts.admin)).get('/api/health')
+    expect(r.status).toBe(200)
+    expect(r.body.evidence).toMatchObject({ status: 'intact', firstBreak: null })
+    expect(r.body.evidence.rows).toBeGreaterThan(0)
+    expect((await (await signIn(accounts.officer)).get('/api/health')).body).not.toHaveProperty('evidence')
   })
 
   it('writes one JSON line per request with its id, and never a password, cookie or query string', async () => {

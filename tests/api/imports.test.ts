@@ -87,7 +87,9 @@ describe('a file with bad rows', () => {
     expect(byRow[3]).toMatchObject({ column: 'head_height_mm', message: expect.stringMatching(/“21OO” is not a number/) })
     expect(byRow[4]).toMatchObject({ column: 'jurisdiction', message: expect.stringMatching(/unknown jurisdiction “NZ”/) })
     expect(byRow[5]).toMatchObject({ column: 'covering_ref', message: expect.stringMatching(/IMP-BAD-01 is given twice .*first on row 2/) })
-    expect(byRow[6]).toMatchObject({ column: 'site_ref', message: 'site SPR belongs to another client; rows may only name this client\'s sites' })
+    // Another client's site reads as a ref never seen: a new site that lacks what creating it needs.
+    expect(done.rowErrors.filter((e: { row: number }) => e.row === 6).map((e: { column: string }) => e.column)).toEqual(['site_name', 'address', 'jurisdiction', 'premises'])
+    expect(byRow[6]).toMatchObject({ column: 'premises', message: 'is empty; it is needed to create site SPR' })
     expect(byRow[7]).toMatchObject({ column: 'lowest_cord_point_mm', message: expect.stringMatching(/higher than head_height_mm \(2100 mm\)/) })
     expect(done.counts).toMatchObject({ rows: 7, goodRows: 2, badRows: 5, written: false, sites: { created: 1 }, units: { created: 2 }, coverings: { created: 1 }, inspections: { created: 1 } })
     expect(await countWhere(`SELECT count(*) AS n FROM sites WHERE ref LIKE 'IMP-BAD%'`, [])).toBe(0)
@@ -98,7 +100,7 @@ describe('a file with bad rows', () => {
     expect(failed.status).toBe('failed')
     expect(failed.error).toMatch(/5 of 7 rows have problems, so nothing was imported/)
     expect(failed.counts.written).toBe(false)
-    expect(failed.rowErrors).toHaveLength(5)
+    expect(failed.rowErrors).toHaveLength(8)
     expect(await countWhere(`SELECT count(*) AS n FROM sites WHERE ref LIKE 'IMP-BAD%'`, [])).toBe(0)
     expect(await countWhere(`SELECT count(*) AS n FROM inspections WHERE import_id = $1`, [failed.id])).toBe(0)
 
@@ -163,7 +165,7 @@ describe('a property manager', () => {
     const before = await sprUnits()
     const done = await importFile(manager, csv, { mode: 'commit' })
     expect(done.status).toBe('failed')
-    expect(done.rowErrors).toEqual([{ row: 3, column: 'site_ref', message: 'site SPR belongs to another client; rows may only name this client\'s sites' }])
+    expect(done.rowErrors).toEqual(['site_name', 'address', 'jurisdiction', 'premises'].map(column => ({ row: 3, column, message: 'is empty; it is needed to create site SPR' })))
     expect(await countWhere(`SELECT count(*) AS n FROM coverings WHERE ref = 'SPR-9-01'`, [])).toBe(0)
     expect(await countWhere(`SELECT count(*) AS n FROM sites WHERE ref = 'IMP-MGR'`, [])).toBe(0)
 

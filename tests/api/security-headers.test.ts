@@ -43,6 +43,61 @@ describe('security headers', () => {
   })
 })
 
+describe('the framework is never named', () => {
+  it('no X-Powered-By on pages, API answers, errors, payloads or static files', async () => {
+    const anon = new ApiClient()
+    const officer = await signIn(accounts.officer)
+    const login = await anon.request('GET', '/login', undefined, { accept: 'text/html' })
+    const assets = [...String(login.body).matchAll(/(?:src|href)="(\/_nuxt\/[^"]+)"/g)].map(m => m[1]!).slice(0, 3)
+    expect(assets.length).toBeGreaterThan(0)
+    const cases: Array<[ApiClient, string, string]> = [
+      [anon, '/login', 'text/html'], [officer, '/', 'text/html'], [officer, '/no-such-page', 'text/html'], [anon, '/no-such-page', 'text/html'],
+      [anon, '/api/health', 'application/json'], [anon, '/api/sites', 'application/json'], [anon, '/api/no-such-route', 'application/json'],
+      [officer, '/api/sites', 'application/json'], [officer, '/api/sites/abc', 'application/json'], [anon, '/favicon.svg', '*/*'],
+      [anon, '/_payload.json', '*/*'], [anon, '/login/_payload.json', '*/*'], [anon, '/_nuxt/no-such-file.js', '*/*'],
+      ...assets.map(a => [anon, a, '*/*'] as [ApiClient, string, string]),
+    ]
+    for (const [client, path, accept] of cases) {
+      const r = await client.request('GET', path, undefined, { accept })
+      expect(r.headers.get('x-powered-by'), `${path} (${r.status})`).toBeNull()
+    }
+    const post = await officer.request('POST', '/api/units', 'not json{')
+    expect(post.status).toBe(400)
+    expect(post.headers.get('x-powered-by')).toBeNull()
+  })
+})
+
+describe('scripts on a page', () => {
+  const inlineScripts = (html: string) => [...html.matchAll(/<script\b([^>]*)>/gi)].map(m => m[1]!).filter(attrs => !/\bsrc=/.test(attrs))
+
+  it('run only with this answer\'s nonce: no \'unsafe-inline\' for scripts, and every inline script carries the nonce', async () => {
+    const officer = await signIn(accounts.officer)
+    const seen = new Set<string>()
+    for (const [client, path] of [[new ApiClient(), '/login'], [officer, '/'], [officer, '/rulebook'], [officer, '/no-such-page'], [new ApiClient(), '/login']] as const) {
+      const r = await client.request('GET', path, undefined, { accept: 'text/html' })
+      expect([200, 404], path).toContain(r.status)
+      const csp = r.headers.get('content-security-policy') ?? ''
+      const scriptSrc = csp.split(';').map(p => p.trim()).find(p => p.startsWith('script-src')) ?? ''
+      expect(scriptSrc, path).not.toContain('unsafe-inline')
+      expect(scriptSrc, path).not.toContain('unsafe-eval')
+      const nonce = /'nonce-([A-Za-z0-9+/=]{16,})'/.exec(scriptSrc)?.[1]
+      expect(nonce, `${path}: ${scriptSrc}`).toBeTruthy()
+      expect(seen.has(nonce!), `${path}: a nonce is never reused`).toBe(false)
+      seen.add(nonce!)
+      const inline = inlineScripts(String(r.body))
+      expect(inline.length, path).toBeGreaterThan(0)
+      for (const attrs of inline) expect(attrs, path).toContain(`nonce="${nonce}"`)
+    }
+  })
+
+  it('API answers allow no inline script at all', async () => {
+    const r = await new ApiClient().request('GET', '/api/health')
+    const csp = r.headers.get('content-security-policy') ?? ''
+    const scriptSrc = csp.split(';').map(p => p.trim()).find(p => p.startsWith('script-src')) ?? ''
+    expect(scriptSrc).toMatch(/^script-src '(self|none)'$/)
+  })
+})
+
 /** Every page file whose address carries an id, as `/sites/:id/reports`. */
 function pagesWithIds(dir = join(process.cwd(), 'pages')): string[] {
   const out: string[] = []

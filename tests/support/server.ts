@@ -26,7 +26,8 @@ export async function startServer(env: Record<string, string>, port?: number): P
   const p = port ?? await freePort()
   const child = spawn(process.execPath, [join(process.cwd(), '.output', 'server', 'index.mjs')], {
     cwd: process.cwd(), stdio: ['ignore', 'ignore', 'pipe'],
-    env: { ...process.env, ...env, HOST: '127.0.0.1', NITRO_HOST: '127.0.0.1', PORT: String(p), NITRO_PORT: String(p), NODE_ENV: 'production' },
+    // Its own address is its public one: state-changing requests from its pages carry that origin.
+    env: { ...process.env, APP_URL: `http://127.0.0.1:${p}`, ...env, HOST: '127.0.0.1', NITRO_HOST: '127.0.0.1', PORT: String(p), NITRO_PORT: String(p), NODE_ENV: 'production' },
   })
   let stderr = ''
   child.stderr!.on('data', (d: Buffer) => { stderr = (stderr + d.toString()).slice(-4000) })
