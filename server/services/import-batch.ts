@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import type { Sequelize, Transaction } from 'sequelize'
-import { checkRecord, coveringRecordSchema } from '../../rules'
+import { checkRecord, parseCoveringRecord } from '../../rules'
 import type { CheckResult, CoveringRecord, Finding } from '../../rules'
 import { columnNameOf, hasMeasurements, measurementColumns, readRow } from '../../shared/schemas/imports'
 import type { HeaderMap, ImportRow, RowProblem } from '../../shared/schemas/imports'
@@ -253,7 +253,8 @@ export class ImportBatcher {
       const measurements: Record<string, unknown> = {}
       for (const c of measurementColumns) if (r[c.name] !== null && c.field !== 'childrensRoom') measurements[c.field!] = r[c.name]
       const childrensRoom = openingChanges.childrensRoom ?? opening.childrensRoom ?? false
-      const parsed = coveringRecordSchema.safeParse(rulebookInput(
+      // The record sign-off would build (rules/build.ts, the room's flag from the register), parsed once.
+      const parsed = parseCoveringRecord(rulebookInput(
         { jurisdiction: (siteChanges.jurisdiction ?? site.jurisdiction) as 'AU', premises: siteChanges.premises ?? site.premises! },
         { ref, ...values } as Parameters<typeof rulebookInput>[1], measurements, { childrensRoom }))
       if (!parsed.success) {

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { controlTypes, coveringRecordSchema, deviceFixings, jurisdictions, madeToValues, premisesTypes, productTypes } from '../../rules'
+import { controlTypes, coveringRecordSchema, deviceFixings, jurisdictions, madeToValues, premisesTypes, productTypes, readForce, readLength } from '../../rules'
 import type { RecordField } from '../../rules'
 import { idValue, listQuerySchema, plainString } from './common'
 
@@ -132,21 +132,13 @@ function isRealDate(text: string, dayRequired: boolean) {
   return day >= 1 && day <= (month === 2 && !leap ? 28 : DAYS[month - 1]!)
 }
 
-const lengthUnits: Record<string, number> = { '': 1, 'mm': 1, 'cm': 10, 'm': 1000, 'in': 25.4, '"': 25.4 }
-const numberPattern = /^(-?\d+(?:\.\d+)?)\s*([a-z"]*)$/i
-
-/** A number with an optional unit: lengths in mm (the default), cm, m or in; forces in N. Rounded to whole units. */
+/**
+ * A number with an optional unit, read by the rulebook's one parser (rules/lengths.ts) as the fitting form reads it:
+ * lengths in mm (the default), cm, m or in (inches to a tenth of a mm); forces in N, as written.
+ */
 function readNumber(column: ImportColumn, raw: string): Cell<number> {
-  const m = numberPattern.exec(raw)
-  const isForce = column.kind === 'force'
-  const example = isForce ? 'in newtons such as 70 or 70N' : 'in millimetres such as 1600 or 1600mm, or with a unit such as 160cm or 63in'
-  const unit = m?.[2]!.toLowerCase() ?? ''
-  const factor = isForce ? (unit === '' || unit === 'n' ? 1 : undefined) : lengthUnits[unit]
-  if (m && factor !== undefined) return { value: Math.round(Number(m[1]) * factor) }
-  if (m && isForce && lengthUnits[unit] !== undefined) return { error: `${quote(raw)} is a length; this column takes a force ${example}` }
-  if (m && !isForce && unit === 'n') return { error: `${quote(raw)} is a force; this column takes a length ${example}` }
-  const hint = /\d[,']\d/.test(raw) ? ' (leave out thousands separators and write decimals with a point)' : ''
-  return { error: `${quote(raw)} is not a number${hint}; write it ${example}` }
+  const read = (column.kind === 'force' ? readForce(raw, 'column') : readLength(raw, 'mm', 'column')) ?? { error: 'is empty' }
+  return read.error !== undefined ? { error: read.error } : { value: read.value }
 }
 
 function readFlag(raw: string): Cell<boolean> {
@@ -278,7 +270,7 @@ const sampleRows: Array<Record<string, string>> = [
     unit_ref: 'U1', unit_name: 'Unit 1', opening_ref: 'W1', room: 'Bedroom 2', childrens_room: 'yes', covering_ref: 'SAMPLE-1-01', product_type: 'roller', control: 'chain_loop',
     made_to: 'custom', installed_on: '2025-03-14', manufactured_on: '2025-02', measured_on: '2026-01-20', head_height_mm: '2150mm', lowest_cord_point_mm: '880',
     loop_pull_out_mm: '35mm', tension_device: 'yes', tension_device_height_mm: '880', tension_device_hold_n: '85N', tension_device_tamper_proof: 'yes',
-    warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes' },
+    device_fixing: 'masonry_plugs', warning_label: 'yes', swing_tag: 'yes', installer_label: 'yes', manufacturer_label: 'yes', installed_per_instructions: 'yes' },
   { site_ref: 'SAMPLE-1', unit_ref: 'U2', unit_name: 'Unit 2' },
 ]
 

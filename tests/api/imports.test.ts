@@ -37,14 +37,17 @@ describe('the template', () => {
     const first = String(r.body).split('\n')[0]!.split(',')
     expect(first.slice(0, 10)).toEqual(['site_ref', 'site_name', 'address', 'jurisdiction', 'premises', 'unit_ref', 'unit_name', 'opening_ref', 'room', 'childrens_room'])
     for (const c of ['covering_ref', 'control', 'head_height_mm', 'lowest_cord_point_mm', 'loop_pull_out_mm', 'tension_device', 'installed_on']) expect(first).toContain(c)
+    // The second edition's record fields have their columns too.
+    for (const c of ['installed_per_instructions', 'inner_loop_pull_out_mm', 'inner_cord_loop', 'tension_device_holds_taut', 'bilingual_information', 'child_free_premises_warning']) expect(first).toContain(c)
 
     const shuffled = ['Loop Pull Out (mm)', 'UNIT_REF', 'Site-Ref', ...header.filter(h => !['loop_pull_out_mm', 'unit_ref', 'site_ref'].includes(h))]
     const row = { ...newSite('IMP-CASE'), ...covering('A', 'IMP-CASE-01', { head_height_mm: '83in' }), 'Loop Pull Out (mm)': '15cm', 'UNIT_REF': 'A', 'Site-Ref': 'IMP-CASE' }
     const done = await importFile(officer, csvOf(shuffled, [row]), { mode: 'commit', clientId: ids.own.client })
     expect(done.status, done.error).toBe('succeeded')
     const { rows: [record] } = await db.query(`SELECT i.record FROM inspections i JOIN coverings c ON c.id = i.covering_id WHERE c.ref = 'IMP-CASE-01'`)
-    // 83 in is 2108 mm and 15 cm is 150 mm, whole millimetres.
-    expect(record.record.headHeightMm).toBe(2108)
+    // 83 in is 2108.2 mm (inches to a tenth of a mm, as the fitting form reads them: whole millimetres could carry
+    // 8.01 in under the US 8 in = 203.2 mm limit), and 15 cm is 150 mm.
+    expect(record.record.headHeightMm).toBe(2108.2)
     expect(record.record.loopPullOutMm).toBe(150)
   })
 

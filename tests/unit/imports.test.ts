@@ -1,21 +1,25 @@
 import { afterEach, describe, expect, it } from 'vitest'
-import { coveringRecordSchema } from '../../rules'
+import { checkRecord, coveringRecordSchema } from '../../rules'
 import { importColumns, mapHeader, measurementAbout, measurementColumns, readCell, readRow, templateRows } from '../../shared/schemas/imports'
 import { countCsvRecords } from '../../server/services/imports'
 import { isRuleSetFixture, ruleSetFixture } from '../../server/services/rule-fixtures'
 import { classifyChange } from '../../server/services/rechecks'
+import { parseRecord, rulebookInput } from '../../server/services/inspections'
 
 const column = (name: string) => importColumns.find(c => c.name === name)!
 const value = (name: string, raw: string) => readCell(column(name), raw)
 
 describe('import cells', () => {
-  it('read lengths in mm by default, and with mm, cm, m or in, to whole millimetres', () => {
+  it('read lengths in mm by default, and with mm, cm, m or in (inches to a tenth of a mm, as the fitting form reads them)', () => {
     expect(value('head_height_mm', '1600')).toEqual({ value: 1600 })
     expect(value('head_height_mm', '1600mm')).toEqual({ value: 1600 })
     expect(value('head_height_mm', ' 160 cm ')).toEqual({ value: 1600 })
     expect(value('head_height_mm', '1.6m')).toEqual({ value: 1600 })
-    expect(value('head_height_mm', '63in')).toEqual({ value: 1600 })
-    expect(value('head_height_mm', '63"')).toEqual({ value: 1600 })
+    // 63 in is 1600.2 mm; rounded to whole mm, 8.01 in (203.45 mm) would read as 203 mm, under the US 8 in (203.2 mm) limit.
+    expect(value('head_height_mm', '63in')).toEqual({ value: 1600.2 })
+    expect(value('head_height_mm', '63"')).toEqual({ value: 1600.2 })
+    expect(value('head_height_mm', '8.01in')).toEqual({ value: 203.5 })
+    expect(value('head_height_mm', '82 1/2in')).toEqual({ value: 2095.5 })
   })
 
   it('name what is wrong with a number: not a number, a separator, the wrong unit', () => {
@@ -74,6 +78,20 @@ describe('the import header and rows', () => {
     const header = mapHeader(head!)
     if (!('map' in header)) throw new Error(header.error)
     for (const r of rows) expect(readRow(header.map, r)).toHaveProperty('row')
+  })
+
+  it('gives a sample covering that is compliant under the current rules, as the import builds its record', () => {
+    const [head, sample] = templateRows()
+    const header = mapHeader(head!)
+    if (!('map' in header)) throw new Error(header.error)
+    const read = readRow(header.map, sample!)
+    if (!('row' in read)) throw new Error(JSON.stringify(read.problems))
+    const r = read.row
+    const measurements = Object.fromEntries(measurementColumns.filter(c => r[c.name] !== null).map(c => [c.field!, r[c.name]]))
+    const record = parseRecord(rulebookInput({ jurisdiction: r.jurisdiction as 'AU', premises: r.premises as string },
+      { ref: r.covering_ref as string, productType: r.product_type as string, control: r.control as string, madeTo: r.made_to as string, installedOn: r.installed_on as string, manufacturedOn: r.manufactured_on as string },
+      measurements, { childrensRoom: r.childrens_room as boolean }))
+    expect(checkRecord(record, { today: r.measured_on as string }).verdict).toBe('compliant')
   })
 
   it('counts CSV records for the progress bar without parsing them', () => {
