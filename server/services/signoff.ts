@@ -3,7 +3,9 @@ import { Op, UniqueConstraintError } from 'sequelize'
 import type { Sequelize, Transaction } from 'sequelize'
 import { Audit, Covering, Inspection, Photo } from '../models'
 import type { Site } from '../models'
+import { ruleReadCoveringFields } from '../../shared/schemas/inspection'
 import type { InspectionCreate } from '../../shared/schemas/inspection'
+import type { CoveringRecord } from '../../rules'
 import type { Actor } from './scope'
 import { RecordInvalidError, SignOffRefusedError, backdateLimitDays, parseRecord, recordInspection, roomOf, rulebookInput } from './inspections'
 import { logActivity } from './activity'
@@ -80,9 +82,13 @@ export async function signOff(db: Sequelize, actor: Actor, site: Site, covering:
   }
   const save = () => db.transaction(async (transaction) => {
     const changed = Object.keys(changes).length ? await applyCoveringChanges(actor, covering, changes, transaction) : covering
+    // Should the register have moved since the record was built (a rule-read field, or the room), it is built again
+    // from what this transaction sees, so the record saved is the register this visit settles.
+    const room = await roomOf(changed, transaction)
+    const settled = sameRegister(record, changed, room) ? record : parseRecord(rulebookInput(site, changed, body.measurements, room))
     const { inspection, result } = await recordInspection(db, {
       workspaceId: actor.workspaceId, site, covering: changed, kind: body.correctsId ? 'correction' : body.kind, inspectorId: actor.id,
-      inspectedAt, measurements: body.measurements, record, notes: body.notes, correctsId: body.correctsId, clientKey: body.clientKey,
+      inspectedAt, measurements: body.measurements, record: settled, notes: body.notes, correctsId: body.correctsId, clientKey: body.clientKey,
       photoIds: photos.map(p => p.id), countedPhotoIds: photos.filter(p => p.widthPx !== null).map(p => p.id), auditId: body.auditId,
       bodySha256: hash, registerChanges: Object.keys(changes).length ? changes : undefined,
     }, transaction)
@@ -99,6 +105,12 @@ export async function signOff(db: Sequelize, actor: Actor, site: Site, covering:
     }
     throw err
   }
+}
+
+/** Does the record carry the covering's rule-read fields and the room's flag as the register holds them now? */
+function sameRegister(record: CoveringRecord, covering: Covering, room: { childrensRoom: boolean | null } | null) {
+  return record.childrensRoom === (room?.childrensRoom ?? null)
+    && ruleReadCoveringFields.every(k => record[k] === ((covering.get(k) as string | null | undefined) ?? null))
 }
 
 /** The covering's rule-read fields as the visit found them, written with the visit (and logged as part of it). */
