@@ -1,6 +1,10 @@
 import { z } from 'zod'
 
 // The enum lists are exported as const arrays so the app can build its pickers from the same values.
+/** NUL, the other C0 controls and DEL: never part of a reference or name. */
+// eslint-disable-next-line no-control-regex
+export const CONTROL_CHARACTERS = /[\u0000-\u001F\u007F]/
+
 export const jurisdictions = ['AU', 'CA', 'US', 'EU'] as const
 export type Jurisdiction = (typeof jurisdictions)[number]
 
@@ -110,7 +114,8 @@ const manufactureDate = z
  */
 export const coveringRecordSchema = z
   .object({
-    ref: z.string({ error: issue => (issue.input === undefined ? 'is required' : 'must be the covering reference (text)') }).trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
+    ref: z.string({ error: issue => (issue.input === undefined ? 'is required' : 'must be the covering reference (text)') }).trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters')
+      .refine(v => !CONTROL_CHARACTERS.test(v), 'must not hold control characters'),
     jurisdiction: enumOf(jurisdictions),
     premises: enumOf(premisesTypes),
     installedOn: installDate,

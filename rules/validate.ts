@@ -1,5 +1,6 @@
 import type { ZodError } from 'zod'
 import {
+  CONTROL_CHARACTERS,
   controlTypes,
   coveringRecordSchema,
   deviceFixings,
@@ -136,7 +137,7 @@ function readDate(v: unknown, dayRequired: boolean): string | null | undefined {
 function readRef(v: unknown): string | undefined {
   if (typeof v !== 'string') return undefined
   const t = v.trim()
-  return t.length >= 1 && t.length <= 200 ? t : undefined
+  return t.length >= 1 && t.length <= 200 && !CONTROL_CHARACTERS.test(t) ? t : undefined
 }
 
 /** The record when the input is one the schema accepts; null when zod must decide (and word the errors). */

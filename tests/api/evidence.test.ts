@@ -18,6 +18,8 @@ import { formatDay } from '../../server/services/report'
 let db: pg.Client
 let ids: Awaited<ReturnType<typeof fixtureIds>>
 let admin: ApiClient, officer: ApiClient, installer: ApiClient
+/** A site of this file's own (AU, rental home), so its coverings never change the demo sites other files count. */
+let siteId: number
 
 beforeAll(async () => {
   db = await database()
@@ -25,14 +27,18 @@ beforeAll(async () => {
   admin = await signIn(accounts.admin)
   officer = await signIn(accounts.officer)
   installer = await signIn(accounts.installer)
+  const site = await admin.post('/api/sites', { clientId: ids.own.client, ref: `EVS-${Date.now().toString(36).toUpperCase()}`, name: 'Marrow Lane Flats',
+    address: '12 Marrow Lane, Kellerton NSW 2999', jurisdiction: 'AU', premises: 'rental_home' })
+  if (site.status !== 201) throw new Error(`fixture site failed: ${JSON.stringify(site.body)}`)
+  siteId = site.body.id as number
 })
 afterAll(async () => { await db.end() })
 
 let seq = 0
-/** A fresh chain-loop roller in a bedroom of Wattle Court (AU, rental home), so each test starts from nothing. */
+/** A fresh chain-loop roller in a bedroom of this file's site (AU, rental home), so each test starts from nothing. */
 async function freshCovering(fields: Record<string, unknown> = {}) {
   const tag = `${Date.now().toString(36)}${++seq}`.toUpperCase()
-  const unit = await admin.post('/api/units', { siteId: ids.own.site, ref: `EV-${tag}` })
+  const unit = await admin.post('/api/units', { siteId, ref: `EV-${tag}` })
   const opening = await admin.post('/api/openings', { unitId: unit.body.id, ref: 'W1', room: 'Bedroom', recessWidthMm: 900, recessHeightMm: 1200 })
   const covering = await admin.post('/api/coverings', { openingId: opening.body.id, ref: `EV-${tag}-1`, productType: 'roller', control: 'chain_loop',
     madeTo: 'custom', installedOn: '2025-05-01', widthMm: 880, dropMm: 1200, ...fields })
@@ -217,10 +223,10 @@ describe('a verdict moves only through evidence', () => {
     const read = await officer.get(`/api/coverings/${id}`)
     expect(read.body).toMatchObject({ control: 'cordless', lastVerdict: 'non_compliant', changedSinceInspection: true, changedFields: ['covering.control'] })
     expect(await openFixes(id)).toBe(remediesBefore)
-    const listed = await officer.get(`/api/coverings?siteId=${ids.own.site}&q=${read.body.ref}`)
+    const listed = await officer.get(`/api/coverings?siteId=${siteId}&q=${read.body.ref}`)
     expect(listed.body.items[0]).toMatchObject({ changedSinceInspection: true })
 
-    const recheck = await officer.post('/api/rechecks', { scope: 'site', id: ids.own.site })
+    const recheck = await officer.post('/api/rechecks', { scope: 'site', id: siteId })
     expect(recheck.status).toBe(202)
     for (let i = 0; i < 100; i++) {
       const job = await officer.get(`/api/rechecks/${recheck.body.id}`)
@@ -313,7 +319,7 @@ describe('removal is a recorded act', () => {
     expect(read.body.inspections).toHaveLength(1)
     const log = await db.query(`SELECT action FROM activity_log WHERE entity = 'covering' AND entity_id = $1`, [id])
     expect(log.rows.map(l => l.action)).toContain('covering.removed')
-    const csv = await officer.request('GET', `/api/sites/${ids.own.site}/audit.csv`, undefined, { accept: 'text/csv' })
+    const csv = await officer.request('GET', `/api/sites/${siteId}/audit.csv`, undefined, { accept: 'text/csv' })
     const csvRows = parse(String(csv.body), { bom: true, columns: true }) as Array<Record<string, string>>
     expect(csvRows.find(x => x.covering_ref === read.body.ref)).toMatchObject({ status: 'removed', removed_by: 'Dev Okonjo',
       removal_reason: 'Chain-loop blind taken down; cordless cellular fitted', removed_on: new Date().toISOString().slice(0, 10), verdict: 'non_compliant' })
