@@ -1,14 +1,7 @@
 import type { H3Event } from 'h3'
-import { z } from 'zod'
-import { listQuerySchema } from '#shared/schemas/common'
 
 // The Mailbox exists only while the local mail fake is in use (MAIL_DIR set). It reads the record of the mail
 // this workspace caused (sent_mail), never the fake's folder, and never decides by the address a message went to.
-
-export const mailboxListQuery = listQuerySchema(['createdAt'], '-createdAt')
-export const mailAttachmentQuery = z.object({
-  index: z.coerce.number({ error: 'index must be a number' }).int().min(0, 'index starts at 0').max(20, 'index is at most 20').default(0),
-})
 
 /** The admin of a workspace that has a local mailbox; 404 when mail goes to a real relay. */
 export async function requireMailboxAdmin(event: H3Event) {

@@ -18,7 +18,7 @@ const HANG_MS = 2_000
 // A new seed each run, so the campaign keeps covering new ground; a failure prints its seed, and HOSTILE_SEED replays it.
 const SEED = Number(process.env.HOSTILE_SEED) || Math.floor(Math.random() * 2 ** 31)
 
-const schemaModules = ['audit', 'auth', 'common', 'imports', 'inspection', 'jobs', 'portfolio', 'register'].map(m => `../../shared/schemas/${m}.ts`)
+const schemaModules = ['audit', 'auth', 'common', 'imports', 'inspection', 'jobs', 'mail', 'portfolio', 'register', 'removal'].map(m => `../../shared/schemas/${m}.ts`)
 const otherModules = ['../../rules/index.ts', '../../server/services/labels.ts', '../../server/services/report-dispatch.ts']
 // Schemas written inside a route file, which cannot be imported: their fields, by route.
 const inlineSchemaFields: Record<string, string[]> = {

@@ -1,3 +1,4 @@
+import { mailboxListQuery } from '#shared/schemas/mail'
 import { listSentMail } from '../../../services/mailbox'
 
 // The admin's view of the mail their own workspace caused, while the local mail fake is in use.

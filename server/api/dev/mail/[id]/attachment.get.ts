@@ -1,3 +1,4 @@
+import { mailAttachmentQuery } from '#shared/schemas/mail'
 import { idParamsSchema } from '#shared/schemas/common'
 import { sentMailAttachment } from '../../../../services/mailbox'
 import { getObject } from '../../../../services/storage'
