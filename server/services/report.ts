@@ -42,6 +42,11 @@ export interface ReportCovering {
   verdict: VerdictKey
   inspectedOn: string | null
   inspectionKind: string | null
+  /** Who measured what the verdict rests on, and when; a confirmation at an audit never replaces them. */
+  measuredBy?: string | null
+  measuredOn?: string | null
+  /** Set when the latest inspection confirmed an earlier measurement unchanged. */
+  confirmedOn?: string | null
   /** What the latest closed audit did with this covering, when it listed it. */
   auditOutcome?: AuditOutcome | null
 }
@@ -283,7 +288,7 @@ async function querySiteReport(db: Sequelize, siteId: number, onPhotos?: (photos
     if (!unit || unit.ref !== c.unitRef) units.push(unit = { ref: c.unitRef, name: c.unitName, floor: c.floor, coverings: [] })
     unit.coverings.push({ id: c.id, ref: c.ref, openingRef: c.openingRef, room: c.room, childrensRoom: c.childrensRoom, productType: c.productType,
       control: c.control, widthMm: c.widthMm, dropMm: c.dropMm, verdict, inspectedOn: c.inspectedOn, inspectionKind: c.inspectionKind,
-      auditOutcome: outcomes.get(c.id)?.status ?? null })
+      measuredBy: c.measuredBy, measuredOn: c.measuredOn, confirmedOn: c.confirmedOn, auditOutcome: outcomes.get(c.id)?.status ?? null })
   }
 
   const findingsBy = groupBy(findings, f => f.coveringId)
@@ -940,8 +945,12 @@ async function drawUnitTables(flow: Flow, pen: Pen, data: SiteReportData): Promi
       const productLines = pen.wrap(product(cv.productType), cell, cols[2]!.width - 2 * pad, 2)
       const controlLines = pen.wrap(control(cv.control), cell, cols[3]!.width - 2 * pad, 2)
       const audit = cv.auditOutcome ? auditWords[cv.auditOutcome] : null
-      const lines = Math.max(refLines.length, room.length, productLines.length, controlLines.length, audit ? 2 : 1)
-      return { cv, refLines, room, productLines, controlLines, audit, height: lines * lineHeight + 2 * pad + 1 }
+      // A confirmation re-dates nothing: who measured, and when, stays in the row beside the confirmation.
+      const measured = cv.confirmedOn && cv.measuredOn
+        ? pen.wrap(`Measured ${formatDay(cv.measuredOn)}${cv.measuredBy ? ` by ${cv.measuredBy}` : ''}`, { size: 7.5 }, cols[6]!.width - 2 * pad, 2)
+        : []
+      const lines = Math.max(refLines.length, room.length, productLines.length, controlLines.length, 1 + (audit ? 1 : 0) + measured.length)
+      return { cv, refLines, room, productLines, controlLines, audit, measured, height: lines * lineHeight + 2 * pad + 1 }
     })
     flow.y -= 6
     flow.ensure(unitBarHeight + headerHeight + (rows[0]?.height ?? 0))
@@ -991,6 +1000,7 @@ async function drawUnitTables(flow: Flow, pen: Pen, data: SiteReportData): Promi
         pen.draw(page, pen.truncate(row.audit, { size: 7.5, weight: notSeen ? 'bold' : 'regular' }, cols[6]!.width - 2 * pad), inspectedX, base - lineHeight,
           { size: 7.5, weight: notSeen ? 'bold' : 'regular', color: notSeen ? verdictColours.incomplete : c.stone })
       }
+      row.measured.forEach((l, n) => pen.draw(page, l, inspectedX, base - ((row.audit ? 2 : 1) + n) * lineHeight, { size: 7.5, color: c.stone }))
       flow.y -= row.height
     })
     flow.y -= 8
