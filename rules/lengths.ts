@@ -15,7 +15,8 @@ const NUMBER = /^([+-]?)(?:(\d+)(?:[.,](\d+))?|(?:(\d+)[\s-]+)?(\d+)\/(\d+))\s*(
 
 /**
  * Inches become millimetres to a tenth: finer than any tape read in inches, and never rounded to whole millimetres,
- * which could carry 8.01 in (203.45 mm) under the US 8 in (203.2 mm) limit. Metric figures are kept as typed.
+ * which could carry 8.01 in (203.45 mm) under the US 8 in (203.2 mm) limit (source: the US rule set, ANSI/WCMA A100.1-2018 §4.3.1).
+ * Metric figures are kept as typed.
  */
 export function inchesToTenthMm(inches: number): number {
   return Math.round(inchesToMm(inches) * 10) / 10
