@@ -14,7 +14,7 @@ import { logActivity } from './activity'
 import { ImportBatcher } from './import-batch'
 import { JobFailed, createJob, enqueueJob, jobJson } from './jobs'
 import type { JobContext } from './jobs'
-import { orderBy } from './scope'
+import { clientLimit, orderBy } from './scope'
 import type { Actor } from './scope'
 import { getObject, putObject } from './storage'
 
@@ -148,7 +148,7 @@ export async function surveyCsv(data: Uint8Array): Promise<{ rows: number }> {
 
 /** The client an import writes into: a manager's own; for staff the one chosen on the form. */
 export async function importClient(actor: Actor, clientId: number | undefined) {
-  const id = actor.role === 'manager' ? actor.clientId : clientId
+  const id = clientLimit(actor) ?? clientId
   if (!id) throw new ImportRefusedError('clientId', 'clientId: choose the client whose units the file holds')
   const client = await Client.findOne({ where: { id, workspaceId: actor.workspaceId } })
   if (!client) throw new ImportRefusedError('clientId', 'clientId: no such client in your workspace', 404)
@@ -296,7 +296,8 @@ function importJson(job: Job, extra: ImportExtra & { createdByName: string | nul
 export async function listImports(db: Sequelize, actor: Actor, q: { page: number, pageSize: number, sort: string, q?: string, mode?: 'dry_run' | 'commit' }): Promise<ListResult<ImportSummary>> {
   const where = ['j.workspace_id = :ws', `j.kind = 'import'`]
   const replacements: Record<string, unknown> = { ws: actor.workspaceId, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
-  if (actor.role === 'manager') { where.push('j.client_id = :clientId'); replacements.clientId = actor.clientId ?? -1 }
+  const limit = clientLimit(actor)
+  if (limit !== undefined) { where.push('j.client_id = :clientId'); replacements.clientId = limit }
   if (q.mode) { where.push('im.mode = :mode'); replacements.mode = q.mode }
   if (q.q) { where.push('im.file_name ILIKE :q'); replacements.q = `%${q.q.replace(/[\\%_]/g, m => `\\${m}`)}%` }
   const order = orderBy(q.sort, { createdAt: 'j.created_at', fileName: 'im.file_name', status: 'j.status' }, 'j.id DESC')

@@ -9,7 +9,7 @@ import type { DueState, PortfolioCoveringRow, PortfolioSummary, PortfolioUnitRow
 import { logActivity } from './activity'
 import { appUrl, sendRecordedMail } from './mail'
 import { countHits, envLimit, minutesText, refundHits } from './rate-limits'
-import { likePattern, orderBy, siteScopeSql } from './scope'
+import { clientLimit, likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
 
 // The portfolio: a client's units and coverings with their verdicts and re-inspection due dates.
@@ -49,7 +49,7 @@ export async function portfolioSummary(db: Sequelize, actor: Actor, f: Filters):
       count(*) FILTER (WHERE ${dueFilter.overdue})::int AS "overdueCount", count(*) FILTER (WHERE ${dueFilter.due_soon})::int AS "dueSoonCount",
       (SELECT count(*)::int FROM fixes fx JOIN sites s ON s.id = fx.site_id WHERE fx.status = 'open' AND ${where.join(' AND ')}) AS "openRemedies"
     FROM ${coveringFrom} WHERE ${where.join(' AND ')} AND c.status = 'in_place'`, { type: QueryTypes.SELECT, replacements })
-  const clientId = actor.role === 'manager' ? actor.clientId : f.clientId
+  const clientId = clientLimit(actor) ?? f.clientId
   const client = clientId ? await Client.findOne({ where: { id: clientId, workspaceId: actor.workspaceId } }) : null
   return { ...row!, clientName: client?.name ?? null, reinspectIntervalMonths: client?.reinspectIntervalMonths ?? null }
 }

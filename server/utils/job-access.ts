@@ -1,6 +1,7 @@
 import type { H3Event } from 'h3'
 import { ImportFile, Job } from '../models'
 import type { JobKind } from '../models'
+import { seesClient } from '../services/scope'
 
 const nouns: Record<JobKind, string> = { import: 'Import', recheck: 'Re-check', export: 'Export' }
 
@@ -12,7 +13,7 @@ export async function requireJobAccess(event: H3Event, id: number, kind?: JobKin
   const user = await requireUser(event)
   useDb()
   const job = await Job.findOne({ where: { id, workspaceId: user.workspaceId, ...(kind ? { kind } : {}) } })
-  if (!job || (user.role === 'manager' && job.clientId !== user.clientId)) {
+  if (!job || !seesClient(user, job.clientId)) {
     throw createError({ statusCode: 404, message: `${kind ? nouns[kind] : 'Job'} not found` })
   }
   return job

@@ -1,10 +1,11 @@
+import { canOversee } from '#shared/access'
 import { importFormSchema } from '#shared/schemas/imports'
 import { ImportRefusedError, createImport, getImport, importClient } from '../../services/imports'
 import { StorageUnavailableError } from '../../services/storage'
 
 // multipart/form-data: `file` (the CSV), `mode` (dry-run or commit), `skipInvalid`, and for staff `clientId`.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer', 'manager'])
+  const user = await requireRole(event, canOversee)
   // The body guard counts the bytes as they arrive and refuses past 32 MB (413 naming `file`) before all are read.
   const parts = await readMultipartFormData(event).catch((err: unknown) => {
     if (isError(err)) throw err

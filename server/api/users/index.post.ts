@@ -1,3 +1,4 @@
+import { canAdminister } from '#shared/access'
 import { inviteSchema } from '#shared/schemas/auth'
 import { Workspace } from '../../models'
 import { InviteRefused, createInvitedUser, sendInvite } from '../../services/accounts'
@@ -5,7 +6,7 @@ import { logActivity } from '../../services/activity'
 
 // Admins invite people by e-mail; the invitee chooses a password through a one-use link.
 export default defineEventHandler(async (event) => {
-  const admin = await requireRole(event, ['admin'])
+  const admin = await requireRole(event, canAdminister)
   const body = await readValidatedBody(event, validateWith(inviteSchema))
   const db = useDb()
   if (body.clientId) await requireClientAccess(event, body.clientId)

@@ -1,3 +1,4 @@
+import { canFit } from '#shared/access'
 import { idParamsSchema } from '#shared/schemas/common'
 import { inspectionCreateSchema } from '#shared/schemas/inspection'
 import { Covering } from '../../../models'
@@ -6,7 +7,7 @@ import { ClientKeyConflictError, RecordInvalidError, SignOffRefusedError, signOf
 // Sign-off: an inspection is saved once and never edited; a correction is a new one. Any change the visit found
 // to the covering's rule-read fields (body.covering) is written with it, in the same transaction.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer', 'installer'])
+  const user = await requireRole(event, canFit)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const body = await readValidatedBody(event, validateWith(inspectionCreateSchema))
   const { record: covering, site } = await requireInSite(event, Covering, id)

@@ -1,3 +1,4 @@
+import { canFit } from '#shared/access'
 import { z } from 'zod'
 import { idParamsSchema } from '#shared/schemas/common'
 import { Covering } from '../../../models'
@@ -8,7 +9,7 @@ const kindSchema = z.enum(photoKinds, { error: `kind must be one of ${photoKinds
 
 // multipart/form-data with `file` (the photo) and `kind`.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer', 'installer'])
+  const user = await requireRole(event, canFit)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const { record: covering } = await requireInSite(event, Covering, id)
   // The body guard counts the bytes as they arrive and refuses past 15 MB (413 naming `file`) before all are read.

@@ -1,9 +1,10 @@
+import { canOversee } from '#shared/access'
 import { idParamsSchema } from '#shared/schemas/common'
 import { exportFile } from '../../../services/exports'
 import { getObject } from '../../../services/storage'
 
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ['admin', 'officer', 'manager'])
+  await requireRole(event, canOversee)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const job = await requireJobAccess(event, id, 'export')
   if (job.status !== 'succeeded') throw createError({ statusCode: 409, message: 'The export is not ready; wait for it to finish' })

@@ -1,10 +1,11 @@
+import { StorageUnavailableError } from '../../../services/storage'
+import { canOversee } from '#shared/access'
 import { idParamsSchema } from '#shared/schemas/common'
 import { buildSiteReport, reportPdfHeaders } from '../../../services/report'
-import { StorageUnavailableError } from '../../../services/storage'
 
 // The landlord's report for a site, drawn fresh from the register.
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ['admin', 'officer', 'manager'])
+  await requireRole(event, canOversee)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const site = await requireSiteAccess(event, id)
   try {

@@ -1,10 +1,11 @@
+import { StorageUnavailableError } from '../../../../services/storage'
+import { canAudit } from '#shared/access'
 import { idParamsSchema } from '#shared/schemas/common'
 import { MAX_ATTEMPTS, emailSiteReport, reportEmailSchema } from '../../../../services/report-dispatch'
-import { StorageUnavailableError } from '../../../../services/storage'
 
 // E-mails the site's report to the client's report contact (or to `to`); 201 when sent, 202 when queued for retry.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer'])
+  const user = await requireRole(event, canAudit)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const site = await requireSiteAccess(event, id)
   const body = await readValidatedBody(event, validateWith(reportEmailSchema))
