@@ -17,14 +17,15 @@ import type { JobContext } from './jobs'
 import { clientLimit, orderBy } from './scope'
 import type { Actor } from './scope'
 import { getObject, putObject } from './storage'
+import { Refusal } from '../utils/refusal'
 
 /** Rows read and written per step; the only rows ever held in memory. */
 export const IMPORT_BATCH = 500
 /** Problems kept per import for people to page through; the count covers them all. */
 export const KEPT_PROBLEMS = 1000
 
-export class ImportRefusedError extends Error {
-  constructor(readonly field: string, message: string, readonly statusCode = 400) { super(message) }
+export class ImportRefusedError extends Refusal {
+  constructor(field: string, message: string, statusCode = 400) { super(statusCode, field, message) }
 }
 
 function csvParser(): Parser {

@@ -23,10 +23,3 @@ export async function requireImportAccess(event: H3Event, id: number): Promise<{
   const job = await requireJobAccess(event, id, 'import')
   return { job, file: (await ImportFile.findByPk(job.id))! }
 }
-
-/** A service refusal (field, message, status) as the API's error shape. */
-export function refusal(err: unknown): never {
-  const e = err as { field?: string, statusCode?: number, message?: string }
-  if (e && e.field && e.statusCode) throw createError({ statusCode: e.statusCode, message: e.message, data: { fields: { [e.field]: e.message } } })
-  throw err
-}

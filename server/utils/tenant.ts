@@ -30,18 +30,12 @@ const labels = new Map<SiteOwned, string>([[Unit, 'Unit'], [Opening, 'Opening'],
 
 /** Loads a unit, opening or covering and checks its site, in one helper for all three. */
 export async function requireInSite<M extends SiteOwned>(event: H3Event, model: M, id: number): Promise<{ record: InstanceType<M>, site: Site }> {
-  await requireUser(event)
+  const user = await requireUser(event)
   useDb()
   const record = await (model as typeof Unit).findByPk(id) as InstanceType<M> | null
-  if (!record) throw createError({ statusCode: 404, message: `${labels.get(model)} not found` })
-  try {
-    const site = await requireSiteAccess(event, record.siteId)
-    return { record, site }
-  }
-  catch (err) {
-    if ((err as { statusCode?: number }).statusCode === 404) throw createError({ statusCode: 404, message: `${labels.get(model)} not found` })
-    throw err
-  }
+  const site = record && await Site.findOne({ where: { id: record.siteId, ...siteWhere(user) } })
+  if (!record || !site) throw createError({ statusCode: 404, message: `${labels.get(model)} not found` })
+  return { record, site }
 }
 
 /** A person in the signed-in user's workspace (404 for anyone else's). */

@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { ApiClient } from '../support/api'
 import { accounts, baseUrl, database, fixtureIds, signIn } from '../support/api'
 import { routeFiles } from '../support/routes'
+import * as access from '../../shared/access'
 
 // A property-based campaign over every route under server/api: fast-check generates malformed requests from each
 // route's own schema (a field it reads given a value no schema may take, other fields given random JSON, ids that
@@ -18,12 +19,15 @@ const HANG_MS = 2_000
 // A new seed each run, so the campaign keeps covering new ground; a failure prints its seed, and HOSTILE_SEED replays it.
 const SEED = Number(process.env.HOSTILE_SEED) || Math.floor(Math.random() * 2 ** 31)
 
-const schemaModules = ['audit', 'auth', 'common', 'imports', 'inspection', 'jobs', 'portfolio', 'register'].map(m => `../../shared/schemas/${m}.ts`)
+const schemaModules = ['audit', 'auth', 'common', 'imports', 'inspection', 'jobs', 'portfolio', 'register', 'removal'].map(m => `../../shared/schemas/${m}.ts`)
 const otherModules = ['../../rules/index.ts', '../../server/services/labels.ts', '../../server/services/report-dispatch.ts']
 // Schemas written inside a route file, which cannot be imported: their fields, by route.
 const inlineSchemaFields: Record<string, string[]> = {
   'GET /api/activity': ['page', 'pageSize', 'sort', 'q', 'entity', 'entityId'],
   'GET /api/sites/:id/reports': ['page', 'pageSize'],
+  // Declared in server/utils/mailbox.ts, which needs Nitro's auto-imports.
+  'GET /api/dev/mail': ['page', 'pageSize', 'sort', 'q'],
+  'GET /api/dev/mail/:id/attachment': ['index'],
 }
 // Routes whose body is ignored: only their address is attacked. Signing out would end the campaign's session.
 const bodyIgnored = new Set(['POST /api/sites/:id/audits', 'POST /api/jobs/:id/cancel'])
@@ -68,7 +72,8 @@ async function routesWithSchemas(): Promise<{ routes: Route[], unknown: string[]
       return found ?? []
     })
     // The roles the route lets in, read from its guard rather than probed (a probe could change something).
-    const roles = /requireRole\(event, \[([^\]]*)\]\)/.exec(source)?.[1]?.match(/\w+/g) ?? null
+    const guard = /requireRole\(event, (\w+)\)/.exec(source)?.[1]
+    const roles = guard && guard in access ? [...access[guard as keyof typeof access] as readonly string[]] : null
     return { key, method, template, body: fieldsOf('readValidatedBody'), query: fieldsOf('getValidatedQuery'), ids: [...template.matchAll(/:(\w+)/g)].map(m => m[1]!), roles }
   })
   return { routes, unknown }

@@ -1,4 +1,4 @@
-.catch(auditError)import { canAudit } from '#shared/access'
+import { canAudit } from '#shared/access'
 import { auditItemSchema } from '#shared/schemas/audit'
 import { idParamsSchema } from '#shared/schemas/common'
 import { auditDetail, markAuditItem } from '../../../services/audits'

@@ -9,9 +9,7 @@ export default defineEventHandler(async (event) => {
   const job = await requireJobAccess(event, id, 'export')
   if (job.status !== 'succeeded') throw createError({ statusCode: 409, message: 'The export is not ready; wait for it to finish' })
   const { objectKey, fileName } = exportFile(job)
-  const object = await getObject(objectKey).catch(() => {
-    throw createError({ statusCode: 503, message: 'File storage is unreachable just now; try again in a moment' })
-  })
+  const object = await getObject(objectKey)
   setResponseHeaders(event, {
     'Content-Type': 'text/csv; charset=utf-8',
     'Content-Disposition': `attachment; filename="${fileName.replace(/[^\w.-]/g, '_')}"`,
