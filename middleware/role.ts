@@ -1,13 +1,13 @@
-import type { Role } from '~/composables/labels'
+import type { RoleSet } from '#shared/access'
 
 declare module '#app' {
   interface PageMeta {
     /** Roles allowed on the page; checked by the `role` route middleware. */
-    roles?: Role[]
+    roles?: RoleSet
   }
 }
 
-// Pages name their roles with definePageMeta({ middleware: 'role', roles: [...] }); others get a 403 page.
+// Pages name their role set from #shared/access: definePageMeta({ middleware: 'role', roles: canFit }); others get a 403 page.
 export default defineNuxtRouteMiddleware((to) => {
   const { user } = useUserSession()
   const allowed = to.meta.roles

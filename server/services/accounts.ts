@@ -4,6 +4,7 @@ import type { Sequelize, Transaction } from 'sequelize'
 import { User } from '../models'
 import { appUrl, sendRecordedMail } from './mail'
 import { clearHits, clearHitsLike, countHits, envLimit, minutesText, refundHits } from './rate-limits'
+import { Refusal } from '../utils/refusal'
 
 /** Sign-in limits (failures in a window of SIGNIN_WINDOW_MINUTES, 15 by default). */
 export const SIGNIN_WINDOW_MINUTES = envLimit('SIGNIN_WINDOW_MINUTES', 15)
@@ -199,8 +200,11 @@ function senderAddress(): string {
   return (from.match(/<([^>]+)>/)?.[1] ?? from).trim().toLowerCase()
 }
 
-export class InviteRefused extends Error {
-  constructor(readonly field: string, message: string, readonly statusCode: number) { super(message) }
+/** The form marks the field without repeating the sentence: the person is already here, or cannot be invited. */
+export class InviteRefused extends Refusal {
+  constructor(field: string, message: string, statusCode: number) {
+    super(statusCode, field, message, { [field]: statusCode === 409 ? 'already in your workspace' : 'cannot be invited' })
+  }
 }
 
 /**

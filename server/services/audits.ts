@@ -5,12 +5,13 @@ import type { Site } from '../models'
 import type { Actor } from './scope'
 import { logActivity } from './activity'
 import { SignOffRefusedError, recordInspection } from './inspections'
+import { Refusal } from '../utils/refusal'
 
 // A site audit walks every covering in place when it opens; each is measured again, confirmed
 // unchanged, or marked not accessible with a reason. Its state lives here, so any device resumes it.
 
-export class AuditRefusedError extends Error {
-  constructor(readonly field: string, message: string, readonly statusCode = 400) { super(message) }
+export class AuditRefusedError extends Refusal {
+  constructor(field: string, message: string, statusCode = 400) { super(statusCode, field, message) }
 }
 
 export async function openAudit(db: Sequelize, actor: Actor, site: Site) {

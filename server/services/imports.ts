@@ -14,17 +14,18 @@ import { logActivity } from './activity'
 import { ImportBatcher } from './import-batch'
 import { JobFailed, createJob, enqueueJob, jobJson } from './jobs'
 import type { JobContext } from './jobs'
-import { orderBy } from './scope'
+import { clientLimit, orderBy } from './scope'
 import type { Actor } from './scope'
 import { getObject, putObject } from './storage'
+import { Refusal } from '../utils/refusal'
 
 /** Rows read and written per step; the only rows ever held in memory. */
 export const IMPORT_BATCH = 500
 /** Problems kept per import for people to page through; the count covers them all. */
 export const KEPT_PROBLEMS = 1000
 
-export class ImportRefusedError extends Error {
-  constructor(readonly field: string, message: string, readonly statusCode = 400) { super(message) }
+export class ImportRefusedError extends Refusal {
+  constructor(field: string, message: string, statusCode = 400) { super(statusCode, field, message) }
 }
 
 function csvParser(): Parser {
@@ -148,7 +149,7 @@ export async function surveyCsv(data: Uint8Array): Promise<{ rows: number }> {
 
 /** The client an import writes into: a manager's own; for staff the one chosen on the form. */
 export async function importClient(actor: Actor, clientId: number | undefined) {
-  const id = actor.role === 'manager' ? actor.clientId : clientId
+  const id = clientLimit(actor) ?? clientId
   if (!id) throw new ImportRefusedError('clientId', 'clientId: choose the client whose units the file holds')
   const client = await Client.findOne({ where: { id, workspaceId: actor.workspaceId } })
   if (!client) throw new ImportRefusedError('clientId', 'clientId: no such client in your workspace', 404)
@@ -296,7 +297,8 @@ function importJson(job: Job, extra: ImportExtra & { createdByName: string | nul
 export async function listImports(db: Sequelize, actor: Actor, q: { page: number, pageSize: number, sort: string, q?: string, mode?: 'dry_run' | 'commit' }): Promise<ListResult<ImportSummary>> {
   const where = ['j.workspace_id = :ws', `j.kind = 'import'`]
   const replacements: Record<string, unknown> = { ws: actor.workspaceId, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
-  if (actor.role === 'manager') { where.push('j.client_id = :clientId'); replacements.clientId = actor.clientId ?? -1 }
+  const limit = clientLimit(actor)
+  if (limit !== undefined) { where.push('j.client_id = :clientId'); replacements.clientId = limit }
   if (q.mode) { where.push('im.mode = :mode'); replacements.mode = q.mode }
   if (q.q) { where.push('im.file_name ILIKE :q'); replacements.q = `%${q.q.replace(/[\\%_]/g, m => `\\${m}`)}%` }
   const order = orderBy(q.sort, { createdAt: 'j.created_at', fileName: 'im.file_name', status: 'j.status' }, 'j.id DESC')

@@ -5,6 +5,7 @@ import { Covering, Finding, Inspection, Opening } from '../models'
 import type { Site } from '../models'
 import { logActivity } from './activity'
 import { applyInspectionToRemedies } from './fixes'
+import { Refusal } from '../utils/refusal'
 
 export type InspectionKind = 'fitting' | 'audit' | 'import' | 'correction'
 
@@ -24,8 +25,8 @@ export async function roomOf(covering: Pick<Covering, 'openingId'>, transaction?
   return Opening.findByPk(covering.openingId, { attributes: ['childrensRoom'], transaction })
 }
 
-export class SignOffRefusedError extends Error {
-  constructor(readonly field: string, message: string) { super(message) }
+export class SignOffRefusedError extends Refusal {
+  constructor(field: string, message: string) { super(400, field, message) }
 }
 
 /** How many days before it reaches the server a visit may be dated (INSPECTION_BACKDATE_DAYS, default 14). */
@@ -34,17 +35,19 @@ export function backdateLimitDays() {
   return Number.isFinite(raw) && raw >= 0 && raw <= 3650 ? raw : 14
 }
 
-export class RecordInvalidError extends Error {
-  constructor(message: string, readonly fields: Record<string, string>) { super(message) }
+/** Measurements the rulebook cannot read: every field at fault, each named under the body's key (`measurements.`). */
+export class RecordInvalidError extends Refusal {
+  constructor(message: string, fields: Record<string, string>) { super(400, Object.keys(fields)[0] ?? null, message, fields) }
 }
 
-export function parseRecord(input: unknown): CoveringRecord {
+/** Builds the record the rulebook reads; fields at fault are named as the request sent them, under `under`. */
+export function parseRecord(input: unknown, under = 'measurements'): CoveringRecord {
   const parsed = parseCoveringRecord(input)
   if (parsed.success) return parsed.data
   const fields: Record<string, string> = {}
-  for (const issue of parsed.error.issues) fields[issue.path.join('.') || '_'] ??= issue.message
+  for (const issue of parsed.error.issues) fields[`${under}.${issue.path.join('.') || '_'}`] ??= issue.message
   const [first] = Object.entries(fields)
-  throw new RecordInvalidError(first ? `${first[0]}: ${first[1]}` : 'record is not valid', fields)
+  throw new RecordInvalidError(first ? `${first[0]}: ${first[1]}` : `${under}: the record is not valid`, fields)
 }
 
 function asText(v: unknown): string | null {

@@ -8,6 +8,7 @@ import type { Covering } from '../models'
 import type { Actor } from './scope'
 import { logActivity } from './activity'
 import { deleteObject, putObject } from './storage'
+import { Refusal } from '../utils/refusal'
 
 export const PHOTO_MAX_BYTES = 15 * 1024 * 1024
 /** Decoded size limit: 100 megapixels holds any phone photo (48–64 MP sensors) and keeps a decode's memory bounded. */
@@ -39,8 +40,8 @@ const accepted: Record<string, { ext: string, format: string, label: string }> =
 export const heicDecodes = (sharp.format.heif?.input.buffer ?? false) && (sharp.format.heif?.input.fileSuffix ?? []).includes('.heic')
 const HEIC_ADVICE = 'send it as JPEG instead: on an iPhone set Settings › Camera › Formats to "Most Compatible", or share the photo as JPEG from the gallery'
 
-export class PhotoRejectedError extends Error {
-  constructor(readonly statusCode: 413 | 415, message: string) { super(message) }
+export class PhotoRejectedError extends Refusal {
+  constructor(statusCode: 413 | 415, message: string) { super(statusCode, 'file', message) }
 }
 
 const limits = { failOn: 'error', limitInputPixels: PHOTO_MAX_PIXELS, sequentialRead: true } as const

@@ -9,8 +9,9 @@ import type { DueState, PortfolioCoveringRow, PortfolioSummary, PortfolioUnitRow
 import { logActivity } from './activity'
 import { appUrl, sendRecordedMail } from './mail'
 import { countHits, envLimit, minutesText, refundHits } from './rate-limits'
-import { likePattern, orderBy, siteScopeSql } from './scope'
+import { clientLimit, likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
+import { Refusal } from '../utils/refusal'
 
 // The portfolio: a client's units and coverings with their verdicts and re-inspection due dates.
 // A covering is due its client's interval (12 months unless set per client) after its last inspection.
@@ -49,7 +50,7 @@ export async function portfolioSummary(db: Sequelize, actor: Actor, f: Filters):
       count(*) FILTER (WHERE ${dueFilter.overdue})::int AS "overdueCount", count(*) FILTER (WHERE ${dueFilter.due_soon})::int AS "dueSoonCount",
       (SELECT count(*)::int FROM fixes fx JOIN sites s ON s.id = fx.site_id WHERE fx.status = 'open' AND ${where.join(' AND ')}) AS "openRemedies"
     FROM ${coveringFrom} WHERE ${where.join(' AND ')} AND c.status = 'in_place'`, { type: QueryTypes.SELECT, replacements })
-  const clientId = actor.role === 'manager' ? actor.clientId : f.clientId
+  const clientId = clientLimit(actor) ?? f.clientId
   const client = clientId ? await Client.findOne({ where: { id: clientId, workspaceId: actor.workspaceId } }) : null
   return { ...row!, clientName: client?.name ?? null, reinspectIntervalMonths: client?.reinspectIntervalMonths ?? null }
 }
@@ -101,8 +102,8 @@ export async function portfolioCoverings(db: Sequelize, actor: Actor, q: Filters
   return { items, total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
 }
 
-export class AuditRequestRefused extends Error {
-  constructor(readonly field: string, message: string, readonly statusCode = 400) { super(message) }
+export class AuditRequestRefused extends Refusal {
+  constructor(field: string, message: string, statusCode = 400) { super(statusCode, field, message) }
 }
 
 /** Audit requests one manager may send in an hour (AUDIT_REQUESTS_PER_HOUR); each e-mails the whole office. */
@@ -142,7 +143,7 @@ export async function requestAudit(db: Sequelize, actor: Actor & { name: string,
   }
   catch (err) {
     await refundHits(db, [key]).catch(() => undefined)
-    throw err
+    throw new Refusal(503, null, 'The request could not be e-mailed just now; nothing was sent. Try again in a moment.', {}, err)
   }
   await logActivity({ workspaceId: actor.workspaceId, userId: actor.id, action: 'portfolio.audit_requested', entity: 'client', entityId: actor.clientId ?? null,
     detail: { siteIds: [...siteIds], unitIds: body.unitIds, preferredFrom: body.preferredFrom, sentTo: to } })

@@ -11,6 +11,7 @@ import { pushColumns } from './pg-copy'
 import { JobFailed, createJob, enqueueJob, jobJson } from './jobs'
 import type { JobContext } from './jobs'
 import { ruleSetFixture } from './rule-fixtures'
+import { clientLimit } from './scope'
 import type { Actor } from './scope'
 
 // A re-check runs every measured covering of a site, client or workspace through the current rule sets.
@@ -166,7 +167,8 @@ export async function recheckJson(db: Sequelize, job: Job): Promise<RecheckSumma
 
 export async function listRechecks(db: Sequelize, actor: Actor, q: { page: number, pageSize: number, siteId?: number }): Promise<ListResult<RecheckSummary>> {
   const where: Record<string, unknown> = { workspaceId: actor.workspaceId, kind: 'recheck' }
-  if (actor.role === 'manager') where.clientId = actor.clientId ?? -1
+  const limit = clientLimit(actor)
+  if (limit !== undefined) where.clientId = limit
   if (q.siteId) where.siteId = q.siteId
   const { rows, count } = await Job.findAndCountAll({ where, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: q.pageSize, offset: (q.page - 1) * q.pageSize })
   return { items: await Promise.all(rows.map(j => recheckJson(db, j))), total: count, page: q.page, pageSize: q.pageSize }

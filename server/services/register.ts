@@ -2,7 +2,7 @@ import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
 import type { ListResult } from '../../shared/schemas/common'
 import type { ClientRow, CoveringDetail, CoveringRemoval, CoveringRow, FindingRow, InspectionRow, OpeningRow, SiteDetail, SiteRow, UnitRow } from '../../shared/types/register'
-import { likePattern, orderBy, siteScopeSql } from './scope'
+import { clientLimit, likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
 
 // Read side of the register: paged, sorted, filtered lists scoped to what the actor may see.
@@ -30,7 +30,8 @@ const verdictCounts = `
 export function listClients(db: Sequelize, actor: Actor, p: Page) {
   const where = ['cl.workspace_id = :workspaceId']
   const replacements: Record<string, unknown> = { workspaceId: actor.workspaceId }
-  if (actor.role === 'manager') { where.push('cl.id = :clientId'); replacements.clientId = actor.clientId }
+  const limit = clientLimit(actor)
+  if (limit !== undefined) { where.push('cl.id = :clientId'); replacements.clientId = limit }
   if (p.q) { where.push('cl.name ILIKE :q'); replacements.q = likePattern(p.q) }
   return paged<ClientRow>(db, `cl.id, cl.name, cl.contact_name AS "contactName", cl.report_email AS "reportEmail", cl.phone,
       cl.reinspect_interval_months AS "reinspectIntervalMonths",

@@ -4,12 +4,13 @@ import { Covering, Photo } from '../models'
 import type { CoveringRemovalCreate } from '../../shared/schemas/removal'
 import type { Actor } from './scope'
 import { logActivity } from './activity'
+import { Refusal } from '../utils/refusal'
 
 // A removal takes a covering out of service for good: who, when, why, optionally a photo and the covering that
 // replaced it. The covering stays in the site's history, CSV and reports; its open remedies close with the removal.
 
-export class RemovalRefusedError extends Error {
-  constructor(readonly field: string, message: string, readonly statusCode = 400) { super(message) }
+export class RemovalRefusedError extends Refusal {
+  constructor(field: string, message: string, statusCode = 400) { super(statusCode, field, message) }
 }
 
 export async function removeCovering(db: Sequelize, actor: Actor, covering: Covering, body: CoveringRemovalCreate) {

@@ -2,9 +2,24 @@ import type { User as SessionUser } from '#auth-utils'
 
 export type Actor = Pick<SessionUser, 'id' | 'role' | 'workspaceId' | 'clientId'> & { name?: string }
 
-/** The same limit as a Sequelize `where` on the Site model. */
+// The one place the tenancy rule is written: everyone sees their own workspace, and a property manager
+// only their own client's part of it (sites, units, coverings, jobs, reports). Every query and guard asks here.
+
+/** The client an actor is held to: a property manager's own (never none), or undefined for the workspace's staff. */
+export function clientLimit(actor: Pick<Actor, 'role' | 'clientId'>): number | undefined {
+  return actor.role === 'manager' ? actor.clientId ?? -1 : undefined
+}
+
+/** Whether a record of this client (already known to be in the actor's workspace) is the actor's to see. */
+export function seesClient(actor: Pick<Actor, 'role' | 'clientId'>, clientId: number | null | undefined): boolean {
+  const limit = clientLimit(actor)
+  return limit === undefined || limit === clientId
+}
+
+/** The same limit as a Sequelize `where` on a model with `workspaceId` and `clientId` (Site, Job). */
 export function siteWhere(actor: Actor): { workspaceId: number, clientId?: number } {
-  return actor.role === 'manager' ? { workspaceId: actor.workspaceId, clientId: actor.clientId ?? -1 } : { workspaceId: actor.workspaceId }
+  const clientId = clientLimit(actor)
+  return clientId === undefined ? { workspaceId: actor.workspaceId } : { workspaceId: actor.workspaceId, clientId }
 }
 
 /**
@@ -12,8 +27,9 @@ export function siteWhere(actor: Actor): { workspaceId: number, clientId?: numbe
  * and for a property manager only their client's sites. Values go in as bind replacements.
  */
 export function siteScopeSql(actor: Actor, alias = 's') {
-  if (actor.role === 'manager') {
-    return { sql: `${alias}.workspace_id = :scopeWorkspaceId AND ${alias}.client_id = :scopeClientId`, replacements: { scopeWorkspaceId: actor.workspaceId, scopeClientId: actor.clientId ?? -1 } }
+  const clientId = clientLimit(actor)
+  if (clientId !== undefined) {
+    return { sql: `${alias}.workspace_id = :scopeWorkspaceId AND ${alias}.client_id = :scopeClientId`, replacements: { scopeWorkspaceId: actor.workspaceId, scopeClientId: clientId } }
   }
   return { sql: `${alias}.workspace_id = :scopeWorkspaceId`, replacements: { scopeWorkspaceId: actor.workspaceId } }
 }

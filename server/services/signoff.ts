@@ -9,11 +9,11 @@ import type { CoveringRecord } from '../../rules'
 import type { Actor } from './scope'
 import { RecordInvalidError, SignOffRefusedError, backdateLimitDays, parseRecord, recordInspection, roomOf, rulebookInput } from './inspections'
 import { logActivity } from './activity'
+import { Refusal } from '../utils/refusal'
 
 /** A clientKey already used for another sign-off (another person's, or other measurements). */
-export class ClientKeyConflictError extends Error {
-  readonly field = 'clientKey'
-  constructor() { super('clientKey: this key was already used for a different sign-off of this covering; a new visit needs a new key') }
+export class ClientKeyConflictError extends Refusal {
+  constructor() { super(409, 'clientKey', 'clientKey: this key was already used for a different sign-off of this covering; a new visit needs a new key') }
 }
 
 /** JSON with object keys sorted at every level, so equal bodies hash alike whatever order the phone sent them in. */

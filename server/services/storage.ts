@@ -1,5 +1,6 @@
 import { DeleteObjectCommand, GetObjectCommand, HeadBucketCommand, PutObjectCommand, S3Client } from '@aws-sdk/client-s3'
 import type { Readable } from 'node:stream'
+import { Refusal } from '../utils/refusal'
 
 // Photos and thumbnails live in one S3 bucket (s3rver locally). Keys are made by the server only.
 let client: S3Client | undefined
@@ -25,7 +26,18 @@ export function s3(): S3Client {
   return client
 }
 
-export class StorageUnavailableError extends Error {}
+/** The one answer when the S3 store cannot be reached: nothing was saved or sent, and trying again will work. */
+export const STORAGE_UNAVAILABLE = 'Photo storage is unreachable just now; nothing was saved or sent. Try again in a moment.'
+
+export class StorageUnavailableError extends Refusal {
+  /** The S3 client's own code (ECONNREFUSED, TimeoutError…), kept for the logs and retry records. */
+  readonly code: string
+  constructor(cause: unknown) {
+    super(503, null, STORAGE_UNAVAILABLE, {}, cause)
+    const e = cause as { code?: string, name?: string }
+    this.code = e?.code ?? e?.name ?? 'error'
+  }
+}
 
 async function guarded<T>(work: () => Promise<T>): Promise<T> {
   try {
@@ -34,7 +46,7 @@ async function guarded<T>(work: () => Promise<T>): Promise<T> {
   catch (err) {
     const e = err as { name?: string, code?: string, $metadata?: { httpStatusCode?: number } }
     if (e.name === 'NoSuchKey' || e.$metadata?.httpStatusCode === 404) throw err
-    throw new StorageUnavailableError(`photo storage is unreachable (${e.code ?? e.name ?? 'error'})`)
+    throw new StorageUnavailableError(err)
   }
 }
 

@@ -1,6 +1,7 @@
 import type { H3Event } from 'h3'
 import { ImportFile, Job } from '../models'
 import type { JobKind } from '../models'
+import { seesClient } from '../services/scope'
 
 const nouns: Record<JobKind, string> = { import: 'Import', recheck: 'Re-check', export: 'Export' }
 
@@ -12,7 +13,7 @@ export async function requireJobAccess(event: H3Event, id: number, kind?: JobKin
   const user = await requireUser(event)
   useDb()
   const job = await Job.findOne({ where: { id, workspaceId: user.workspaceId, ...(kind ? { kind } : {}) } })
-  if (!job || (user.role === 'manager' && job.clientId !== user.clientId)) {
+  if (!job || !seesClient(user, job.clientId)) {
     throw createError({ statusCode: 404, message: `${kind ? nouns[kind] : 'Job'} not found` })
   }
   return job
@@ -21,11 +22,4 @@ export async function requireJobAccess(event: H3Event, id: number, kind?: JobKin
 export async function requireImportAccess(event: H3Event, id: number): Promise<{ job: Job, file: ImportFile }> {
   const job = await requireJobAccess(event, id, 'import')
   return { job, file: (await ImportFile.findByPk(job.id))! }
-}
-
-/** A service refusal (field, message, status) as the API's error shape. */
-export function refusal(err: unknown): never {
-  const e = err as { field?: string, statusCode?: number, message?: string }
-  if (e && e.field && e.statusCode) throw createError({ statusCode: e.statusCode, message: e.message, data: { fields: { [e.field]: e.message } } })
-  throw err
 }

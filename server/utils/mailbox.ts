@@ -1,3 +1,4 @@
+import { canAdminister } from '#shared/access'
 import type { H3Event } from 'h3'
 
 // The Mailbox exists only while the local mail fake is in use (MAIL_DIR set). It reads the record of the mail
@@ -5,7 +6,7 @@ import type { H3Event } from 'h3'
 
 /** The admin of a workspace that has a local mailbox; 404 when mail goes to a real relay. */
 export async function requireMailboxAdmin(event: H3Event) {
-  const admin = await requireRole(event, ['admin'])
+  const admin = await requireRole(event, canAdminister)
   if (!process.env.MAIL_DIR) throw createError({ statusCode: 404, message: 'No local mailbox: mail goes to a real SMTP relay here' })
   return admin
 }

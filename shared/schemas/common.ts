@@ -14,7 +14,6 @@ export const idParamsSchema = z.object({ id: idValue('id') })
 
 export const roles = ['admin', 'officer', 'installer', 'manager'] as const
 export type Role = typeof roles[number]
-export const staffRoles = ['admin', 'officer', 'installer'] as const satisfies readonly Role[]
 
 /** A whole number in a query string (plain decimal digits) or a JSON body (a number); never coerced from true, '' or 1e3. */
 export function wholeNumber(field: string) {

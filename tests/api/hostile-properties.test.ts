@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { ApiClient } from '../support/api'
 import { accounts, baseUrl, database, fixtureIds, signIn } from '../support/api'
 import { routeFiles } from '../support/routes'
+import * as access from '../../shared/access'
 
 // A property-based campaign over every route under server/api: fast-check generates malformed requests from each
 // route's own schema (a field it reads given a value no schema may take, other fields given random JSON, ids that
@@ -68,7 +69,8 @@ async function routesWithSchemas(): Promise<{ routes: Route[], unknown: string[]
       return found ?? []
     })
     // The roles the route lets in, read from its guard rather than probed (a probe could change something).
-    const roles = /requireRole\(event, \[([^\]]*)\]\)/.exec(source)?.[1]?.match(/\w+/g) ?? null
+    const guard = /requireRole\(event, (\w+)\)/.exec(source)?.[1]
+    const roles = guard && guard in access ? [...access[guard as keyof typeof access] as readonly string[]] : null
     return { key, method, template, body: fieldsOf('readValidatedBody'), query: fieldsOf('getValidatedQuery'), ids: [...template.matchAll(/:(\w+)/g)].map(m => m[1]!), roles }
   })
   return { routes, unknown }

@@ -56,6 +56,23 @@ describe('photo storage unreachable', () => {
     expect(await count()).toBe(before)
     await db.end()
   })
+
+  it('answers an import and a report e-mail with the same 503 message as a photo upload, and a Retry-After', async () => {
+    const db = await database()
+    const ids = await fixtureIds(db)
+    await db.end()
+    const officer = await signIn(accounts.officer, undefined, server.base)
+    const form = new FormData()
+    form.append('clientId', String(ids.own.client))
+    form.append('file', new Blob(['site_ref,unit_ref\nWAT,U1\n']), 'units.csv')
+    const imported = await officer.request('POST', '/api/imports', form)
+    const emailed = await officer.post(`/api/sites/${ids.own.site}/report/email`, {})
+    for (const r of [imported, emailed]) {
+      expect(r.status, JSON.stringify(r.body)).toBe(503)
+      expect(r.body.message).toBe('Photo storage is unreachable just now; nothing was saved or sent. Try again in a moment.')
+      expect(r.headers.get('retry-after')).toBe('2')
+    }
+  })
 })
 
 // The shared SMTP fake that `npm test` runs is stopped, so no server process can deliver; a second server that

@@ -1,3 +1,4 @@
+import { canAudit } from '#shared/access'
 import { QueryTypes } from 'sequelize'
 import { z } from 'zod'
 import { idValue, listQuerySchema } from '#shared/schemas/common'
@@ -8,7 +9,7 @@ const query = listQuerySchema(['at'], '-at').extend({
 })
 
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer'])
+  const user = await requireRole(event, canAudit)
   const q = await getValidatedQuery(event, validateWith(query))
   const where = ['a.workspace_id = :ws', ...(q.entity ? ['a.entity = :entity'] : []), ...(q.entityId ? ['a.entity_id = :entityId'] : [])]
   const replacements = { ws: user.workspaceId, entity: q.entity, entityId: q.entityId, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }

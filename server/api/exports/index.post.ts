@@ -1,10 +1,11 @@
+import { canOversee } from '#shared/access'
 import { exportCreateSchema } from '#shared/schemas/jobs'
 import { jobJson } from '../../services/jobs'
 import { createExport } from '../../services/exports'
 
 // { scope: site | client, id }: the audit CSV built in the background, downloaded when done.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer', 'manager'])
+  const user = await requireRole(event, canOversee)
   const body = await readValidatedBody(event, validateWith(exportCreateSchema))
   const target = body.scope === 'site'
     ? { scope: 'site' as const, site: await requireSiteAccess(event, body.id) }

@@ -1,10 +1,10 @@
+import { canOversee } from '#shared/access'
 import { importFormSchema } from '#shared/schemas/imports'
-import { ImportRefusedError, createImport, getImport, importClient } from '../../services/imports'
-import { StorageUnavailableError } from '../../services/storage'
+import { createImport, getImport, importClient } from '../../services/imports'
 
 // multipart/form-data: `file` (the CSV), `mode` (dry-run or commit), `skipInvalid`, and for staff `clientId`.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer', 'manager'])
+  const user = await requireRole(event, canOversee)
   // The body guard counts the bytes as they arrive and refuses past 32 MB (413 naming `file`) before all are read.
   const parts = await readMultipartFormData(event).catch((err: unknown) => {
     if (isError(err)) throw err
@@ -16,16 +16,9 @@ export default defineEventHandler(async (event) => {
   if (!file?.data.byteLength) throw createError({ statusCode: 400, message: 'file: no file was attached', data: { fields: { file: 'missing' } } })
   // Staff choose the client; a manager imports into their own, and naming another is not found.
   if (form.clientId !== undefined) await requireClientAccess(event, form.clientId)
-  try {
-    const client = await importClient(user, form.clientId)
-    const job = await createImport(useDb(), user, { client, fileName: (file.filename || 'import.csv').slice(0, 200), data: file.data,
-      mode: form.mode === 'commit' ? 'commit' : 'dry_run', skipInvalid: form.skipInvalid })
-    setResponseStatus(event, 202)
-    return getImport(useDb(), job)
-  }
-  catch (err) {
-    if (err instanceof StorageUnavailableError) throw createError({ statusCode: 503, message: 'File storage is unreachable just now; nothing was imported. Try again in a moment.' })
-    if (err instanceof ImportRefusedError) refusal(err)
-    throw err
-  }
+  const client = await importClient(user, form.clientId)
+  const job = await createImport(useDb(), user, { client, fileName: (file.filename || 'import.csv').slice(0, 200), data: file.data,
+    mode: form.mode === 'commit' ? 'commit' : 'dry_run', skipInvalid: form.skipInvalid })
+  setResponseStatus(event, 202)
+  return getImport(useDb(), job)
 })

@@ -2,6 +2,7 @@ import { idParamsSchema } from '#shared/schemas/common'
 import { Opening } from '../../models'
 
 export default defineEventHandler(async (event) => {
+  await requireUser(event)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const { record, site } = await requireInSite(event, Opening, id)
   return { ...record.toJSON(), siteName: site.name, jurisdiction: site.jurisdiction }

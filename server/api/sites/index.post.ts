@@ -1,9 +1,10 @@
+import { canAudit } from '#shared/access'
 import { siteCreateSchema } from '#shared/schemas/register'
 import { Site } from '../../models'
 import { createLogged } from '../../services/records'
 
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer'])
+  const user = await requireRole(event, canAudit)
   const body = await readValidatedBody(event, validateWith(siteCreateSchema))
   await requireClientAccess(event, body.clientId)
   const site = await uniqueOr409(() => createLogged(() => Site.create({ ...body, workspaceId: user.workspaceId }), user, 'site', { ref: body.ref }), 'ref', 'site')

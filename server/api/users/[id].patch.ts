@@ -1,14 +1,13 @@
+import { canAdminister } from '#shared/access'
 import { userPatchSchema } from '#shared/schemas/auth'
 import { idParamsSchema } from '#shared/schemas/common'
-import { User } from '../../models'
 import { logActivity } from '../../services/activity'
 import { revokeSessions } from '../../services/accounts'
 
 export default defineEventHandler(async (event) => {
-  const admin = await requireRole(event, ['admin'])
+  const admin = await requireRole(event, canAdminister)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
-  const user = await User.findOne({ where: { id, workspaceId: admin.workspaceId } })
-  if (!user) throw createError({ statusCode: 404, message: 'User not found' })
+  const user = await requireWorkspaceUser(event, id)
   const body = await readValidatedBody(event, validateWith(userPatchSchema))
   if (user.id === admin.id && (body.active === false || (body.role && body.role !== 'admin'))) {
     throw createError({ statusCode: 400, message: 'role: you cannot remove your own admin access', data: { fields: { role: 'own account' } } })

@@ -1,22 +1,16 @@
+import { canAdminister } from '#shared/access'
 import { inviteSchema } from '#shared/schemas/auth'
 import { Workspace } from '../../models'
-import { InviteRefused, createInvitedUser, sendInvite } from '../../services/accounts'
+import { createInvitedUser, sendInvite } from '../../services/accounts'
 import { logActivity } from '../../services/activity'
 
 // Admins invite people by e-mail; the invitee chooses a password through a one-use link.
 export default defineEventHandler(async (event) => {
-  const admin = await requireRole(event, ['admin'])
+  const admin = await requireRole(event, canAdminister)
   const body = await readValidatedBody(event, validateWith(inviteSchema))
   const db = useDb()
   if (body.clientId) await requireClientAccess(event, body.clientId)
-  let user
-  try {
-    user = await createInvitedUser(db, admin.workspaceId, body)
-  }
-  catch (err) {
-    if (err instanceof InviteRefused) throw createError({ statusCode: err.statusCode, message: err.message, data: { fields: { [err.field]: err.statusCode === 409 ? 'already in your workspace' : 'cannot be invited' } } })
-    throw err
-  }
+  const user = await createInvitedUser(db, admin.workspaceId, body)
   const workspace = await Workspace.findByPk(admin.workspaceId)
   await sendInvite(db, user, workspace?.name ?? 'your team', admin)
   await logActivity({ workspaceId: admin.workspaceId, userId: admin.id, action: 'user.invited', entity: 'user', entityId: user.id, detail: { email: user.email, role: user.role } })

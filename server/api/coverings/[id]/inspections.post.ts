@@ -1,26 +1,17 @@
+import { canFit } from '#shared/access'
 import { idParamsSchema } from '#shared/schemas/common'
 import { inspectionCreateSchema } from '#shared/schemas/inspection'
 import { Covering } from '../../../models'
-import { ClientKeyConflictError, RecordInvalidError, SignOffRefusedError, signOff } from '../../../services/signoff'
+import { signOff } from '../../../services/signoff'
 
 // Sign-off: an inspection is saved once and never edited; a correction is a new one. Any change the visit found
 // to the covering's rule-read fields (body.covering) is written with it, in the same transaction.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer', 'installer'])
+  const user = await requireRole(event, canFit)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const body = await readValidatedBody(event, validateWith(inspectionCreateSchema))
   const { record: covering, site } = await requireInSite(event, Covering, id)
-  try {
-    const { inspection, result, replayed } = await signOff(useDb(), user, site, covering, body)
-    setResponseStatus(event, replayed ? 200 : 201)
-    return { id: inspection.id, kind: inspection.kind, inspectedAt: inspection.inspectedAt, verdict: inspection.verdict, rulesVersion: inspection.rulesVersion, replayed, result: result ?? null }
-  }
-  catch (err) {
-    if (err instanceof RecordInvalidError) {
-      throw createError({ statusCode: 400, message: `measurements.${err.message}`, data: { fields: Object.fromEntries(Object.entries(err.fields).map(([k, v]) => [`measurements.${k}`, v])) } })
-    }
-    if (err instanceof ClientKeyConflictError) throw createError({ statusCode: 409, message: err.message, data: { fields: { clientKey: err.message } } })
-    if (err instanceof SignOffRefusedError) throw createError({ statusCode: 400, message: err.message, data: { fields: { [err.field]: err.message } } })
-    throw err
-  }
+  const { inspection, result, replayed } = await signOff(useDb(), user, site, covering, body)
+  setResponseStatus(event, replayed ? 200 : 201)
+  return { id: inspection.id, kind: inspection.kind, inspectedAt: inspection.inspectedAt, verdict: inspection.verdict, rulesVersion: inspection.rulesVersion, replayed, result: result ?? null }
 })

@@ -1,3 +1,4 @@
+import { canFit } from '#shared/access'
 import { idParamsSchema } from '#shared/schemas/common'
 import { Covering } from '../../../models'
 import { defaultSheetFor, labelDataForCoverings, labelPdfHeaders, labelQuerySchema, positionProblem, renderLabelsPdf } from '../../../services/labels'
@@ -5,7 +6,7 @@ import { appUrl } from '../../../services/mail'
 
 // One covering's installer label, placed at `position` so a part-used sticker sheet can be printed again.
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ['admin', 'officer', 'installer'])
+  await requireRole(event, canFit)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const query = await getValidatedQuery(event, validateWith(labelQuerySchema))
   const { record, site } = await requireInSite(event, Covering, id)

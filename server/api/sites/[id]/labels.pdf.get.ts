@@ -1,10 +1,11 @@
+import { canFit } from '#shared/access'
 import { idParamsSchema } from '#shared/schemas/common'
 import { defaultSheetFor, labelDataForCoverings, labelPdfHeaders, labelQuerySchema, positionProblem, renderLabelsPdf } from '../../../services/labels'
 import { appUrl } from '../../../services/mail'
 
 // Installer labels for every covering in place on a site, in unit, opening and covering order.
 export default defineEventHandler(async (event) => {
-  await requireRole(event, ['admin', 'officer', 'installer'])
+  await requireRole(event, canFit)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const query = await getValidatedQuery(event, validateWith(labelQuerySchema))
   const site = await requireSiteAccess(event, id)

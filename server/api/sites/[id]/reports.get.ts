@@ -1,3 +1,4 @@
+import { canOversee } from '#shared/access'
 import { z } from 'zod'
 import { idParamsSchema } from '#shared/schemas/common'
 import { listDispatches } from '../../../services/report-dispatch'
@@ -9,7 +10,7 @@ const pageSchema = z.object({
 
 // The reports e-mailed for a site: who sent which file to whom, and whether it went.
 export default defineEventHandler(async (event) => {
-  const user = await requireRole(event, ['admin', 'officer', 'manager'])
+  const user = await requireRole(event, canOversee)
   const { id } = await getValidatedRouterParams(event, validateWith(idParamsSchema))
   const query = await getValidatedQuery(event, validateWith(pageSchema))
   const site = await requireSiteAccess(event, id)

@@ -10,9 +10,7 @@ export default defineEventHandler(async (event) => {
   const { index } = await getValidatedQuery(event, validateWith(mailAttachmentQuery))
   const attachment = await sentMailAttachment(useDb(), admin.workspaceId, id, index)
   if (!attachment) throw createError({ statusCode: 404, message: 'Attachment not found' })
-  const object = await getObject(attachment.objectKey).catch(() => {
-    throw createError({ statusCode: 503, message: 'File storage is unreachable just now; try again in a moment' })
-  })
+  const object = await getObject(attachment.objectKey)
   setResponseHeaders(event, {
     'Content-Type': attachment.contentType === 'application/pdf' ? 'application/pdf' : 'application/octet-stream',
     'Content-Disposition': `attachment; filename="${attachment.fileName.replace(/[^\w.-]/g, '_')}"`,
