@@ -39,13 +39,20 @@ export class StorageUnavailableError extends Refusal {
   }
 }
 
-async function guarded<T>(work: () => Promise<T>): Promise<T> {
+/** An object the register points at is not in the store: the record is kept, and a backup can bring the file back. */
+export class StoredObjectMissingError extends Refusal {
+  constructor(readonly key: string) {
+    super(404, null, 'The stored file is missing from storage; its record is kept. An administrator can restore it from a backup.')
+  }
+}
+
+async function guarded<T>(work: () => Promise<T>, key?: string): Promise<T> {
   try {
     return await work()
   }
   catch (err) {
     const e = err as { name?: string, code?: string, $metadata?: { httpStatusCode?: number } }
-    if (e.name === 'NoSuchKey' || e.$metadata?.httpStatusCode === 404) throw err
+    if (e.name === 'NoSuchKey' || e.$metadata?.httpStatusCode === 404) throw key ? new StoredObjectMissingError(key) : err
     throw new StorageUnavailableError(err)
   }
 }
@@ -58,12 +65,12 @@ export function putObject(key: string, body: Uint8Array, contentType: string, sh
 }
 
 export async function getObject(key: string): Promise<{ body: Readable, contentType?: string, length?: number }> {
-  const r = await guarded(() => s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key })))
+  const r = await guarded(() => s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key })), key)
   return { body: r.Body as Readable, contentType: r.ContentType, length: r.ContentLength }
 }
 
 export async function getObjectBytes(key: string): Promise<Uint8Array> {
-  const r = await guarded(() => s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key })))
+  const r = await guarded(() => s3().send(new GetObjectCommand({ Bucket: bucket(), Key: key })), key)
   return r.Body!.transformToByteArray()
 }
 
