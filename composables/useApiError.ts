@@ -22,29 +22,12 @@ export function readApiError(err: unknown): { status: number, message: string, f
   return { status, message, fields }
 }
 
-/** A form's submit state: busy flag, top message and field errors, with a runner that fills them. */
-export function useFormState() {
-  const busy = ref(false)
-  const message = ref('')
-  const fields = ref<Record<string, string>>({})
-
-  async function run<T>(work: () => Promise<T>): Promise<T | undefined> {
-    busy.value = true
-    message.value = ''
-    fields.value = {}
-    try {
-      return await work()
-    }
-    catch (err) {
-      const read = readApiError(err)
-      message.value = read.message
-      fields.value = read.fields
-      return undefined
-    }
-    finally {
-      busy.value = false
-    }
+/** The zod issues a form's own check found, as one message by field (the last issue about a field wins). */
+export function issueMessages(issues: ReadonlyArray<{ path: PropertyKey[], message: string }>, wording?: (field: string, message: string) => string): Record<string, string> {
+  const out: Record<string, string> = {}
+  for (const issue of issues) {
+    const field = String(issue.path[0] ?? '')
+    out[field] = wording ? wording(field, issue.message) : sentence(issue.message)
   }
-
-  return { busy, message, fields, run }
+  return out
 }
