@@ -75,7 +75,10 @@ describe('importing units through the page', () => {
       await finished(page, 'Checking the rows')
       await page.getByRole('heading', { name: /2 rows checked: 1 row with problems/ }).waitFor()
       const problems = page.getByRole('table', { name: 'Rows with problems' })
-      const cells = await problems.locator('tbody tr').first().locator('td').allInnerTexts()
+      // The problem rows arrive after the heading: wait for the row itself before reading its cells.
+      const firstProblem = problems.locator('tbody tr').first()
+      await firstProblem.locator('td', { hasText: 'head_height_mm' }).waitFor()
+      const cells = await firstProblem.locator('td').allInnerTexts()
       expect(cells[0]).toBe('3')
       expect(cells[1]).toBe('head_height_mm')
       expect(cells[2]).toMatch(/“tall” is not a number/)
