@@ -3,6 +3,7 @@ import type { Sequelize, Transaction } from 'sequelize'
 import type { CheckResult } from '../../rules'
 import { Fix } from '../models'
 import type { Inspection, Site } from '../models'
+import { paged } from './paged'
 import { likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
 import type { RemedyRow } from '../../shared/types/audit'
@@ -113,7 +114,7 @@ export interface FixQuery {
 export async function listFixes(db: Sequelize, actor: Actor, q: FixQuery) {
   const scope = siteScopeSql(actor)
   const where = [scope.sql]
-  const replacements: Record<string, unknown> = { ...scope.replacements, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
+  const replacements: Record<string, unknown> = { ...scope.replacements }
   if (q.status !== 'all') { where.push('f.status = :status'); replacements.status = q.status }
   if (q.siteId) { where.push('f.site_id = :siteId'); replacements.siteId = q.siteId }
   if (q.coveringId) { where.push('f.covering_id = :coveringId'); replacements.coveringId = q.coveringId }
@@ -123,11 +124,7 @@ export async function listFixes(db: Sequelize, actor: Actor, q: FixQuery) {
   if (q.overdue === 'false') where.push(`NOT (f.status = 'open' AND f.due_on < current_date)`)
   if (q.q) { where.push('(c.ref ILIKE :q OR f.clause ILIKE :q OR s.name ILIKE :q OR o.room ILIKE :q)'); replacements.q = likePattern(q.q) }
   const order = orderBy(q.sort, { dueOn: 'f.due_on', priority: 'f.priority', createdAt: 'f.created_at', clause: 'f.clause' }, 'f.id')
-  const [items, [count]] = await Promise.all([
-    db.query<FixRow>(`SELECT ${fixSelect} FROM ${fixFrom} WHERE ${where.join(' AND ')} ORDER BY ${order} LIMIT :limit OFFSET :offset`, { type: QueryTypes.SELECT, replacements }),
-    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM ${fixFrom} WHERE ${where.join(' AND ')}`, { type: QueryTypes.SELECT, replacements }),
-  ])
-  return { items, total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
+  return paged<FixRow>(db, fixSelect, fixFrom, where, order, replacements, q)
 }
 
 export async function getFix(db: Sequelize, actor: Actor, id: number) {

@@ -14,6 +14,7 @@ import { logActivity } from './activity'
 import { ImportBatcher } from './import-batch'
 import { JobFailed, createJob, enqueueJob, jobJson } from './jobs'
 import type { JobContext } from './jobs'
+import { paged } from './paged'
 import { clientLimit, orderBy } from './scope'
 import type { Actor } from './scope'
 import { getObject, putObject } from './storage'
@@ -296,19 +297,15 @@ function importJson(job: Job, extra: ImportExtra & { createdByName: string | nul
 /** The imports an actor may see: their workspace's, and a manager only their client's. */
 export async function listImports(db: Sequelize, actor: Actor, q: { page: number, pageSize: number, sort: string, q?: string, mode?: 'dry_run' | 'commit' }): Promise<ListResult<ImportSummary>> {
   const where = ['j.workspace_id = :ws', `j.kind = 'import'`]
-  const replacements: Record<string, unknown> = { ws: actor.workspaceId, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
+  const replacements: Record<string, unknown> = { ws: actor.workspaceId }
   const limit = clientLimit(actor)
   if (limit !== undefined) { where.push('j.client_id = :clientId'); replacements.clientId = limit }
   if (q.mode) { where.push('im.mode = :mode'); replacements.mode = q.mode }
   if (q.q) { where.push('im.file_name ILIKE :q'); replacements.q = `%${q.q.replace(/[\\%_]/g, m => `\\${m}`)}%` }
   const order = orderBy(q.sort, { createdAt: 'j.created_at', fileName: 'im.file_name', status: 'j.status' }, 'j.id DESC')
-  const [rows, [count]] = await Promise.all([
-    db.query<ImportExtra & { id: number, createdByName: string | null }>(`SELECT ${importSelect} FROM ${importFrom} WHERE ${where.join(' AND ')} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
-      { type: QueryTypes.SELECT, replacements }),
-    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM ${importFrom} WHERE ${where.join(' AND ')}`, { type: QueryTypes.SELECT, replacements }),
-  ])
+  const { items: rows, ...page } = await paged<ImportExtra & { id: number, createdByName: string | null }>(db, importSelect, importFrom, where, order, replacements, q)
   const jobs = new Map((await Job.findAll({ where: { id: rows.map(r => r.id) } })).map(j => [j.id, j]))
-  return { items: rows.map(({ id, ...extra }) => importJson(jobs.get(id)!, extra)), total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
+  return { items: rows.map(({ id, ...extra }) => importJson(jobs.get(id)!, extra)), ...page }
 }
 
 export async function getImport(db: Sequelize, job: Job): Promise<ImportDetail> {
@@ -320,11 +317,6 @@ export async function getImport(db: Sequelize, job: Job): Promise<ImportDetail> 
 
 export async function listImportErrors(db: Sequelize, jobId: number, q: { page: number, pageSize: number, sort: string, column?: string }): Promise<ListResult<ImportRowError>> {
   const where = ['job_id = :jobId', ...(q.column ? ['column_name = :column'] : [])]
-  const replacements = { jobId, column: q.column, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
-  const [items, [count]] = await Promise.all([
-    db.query<ImportRowError>(`SELECT row_number AS row, column_name AS "column", message FROM import_row_errors WHERE ${where.join(' AND ')}
-      ORDER BY row_number ${q.sort === '-row' ? 'DESC' : 'ASC'}, id LIMIT :limit OFFSET :offset`, { type: QueryTypes.SELECT, replacements }),
-    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM import_row_errors WHERE ${where.join(' AND ')}`, { type: QueryTypes.SELECT, replacements }),
-  ])
-  return { items, total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
+  return paged<ImportRowError>(db, 'row_number AS row, column_name AS "column", message', 'import_row_errors', where,
+    `row_number ${q.sort === '-row' ? 'DESC' : 'ASC'}, id`, { jobId, column: q.column }, q)
 }

@@ -1,6 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
 import type { SentAttachment } from './mail'
+import { paged } from './paged'
 import { likePattern } from './scope'
 
 // The Mailbox reads the record of what the app sent (sent_mail), one workspace's rows only. Who a message was
@@ -35,13 +36,8 @@ export async function listSentMail(db: Sequelize, workspaceId: number, q: { page
     where.push(`(m.subject ILIKE :like OR array_to_string(m.recipients, ' ') ILIKE :like)`)
     replacements.like = likePattern(q.q)
   }
-  const [items, [count]] = await Promise.all([
-    db.query<SentMailItem>(`SELECT m.id, m.kind, m.recipients AS "to", m.subject, m.status, jsonb_array_length(m.attachments) AS "attachmentCount", m.created_at AS "createdAt"
-      FROM sent_mail m WHERE ${where.join(' AND ')} ORDER BY ${sortSql[q.sort] ?? sortSql['-createdAt']} LIMIT :limit OFFSET :offset`,
-    { type: QueryTypes.SELECT, replacements: { ...replacements, limit: q.pageSize, offset: (q.page - 1) * q.pageSize } }),
-    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM sent_mail m WHERE ${where.join(' AND ')}`, { type: QueryTypes.SELECT, replacements }),
-  ])
-  return { items, total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
+  return paged<SentMailItem>(db, `m.id, m.kind, m.recipients AS "to", m.subject, m.status, jsonb_array_length(m.attachments) AS "attachmentCount", m.created_at AS "createdAt"`,
+    'sent_mail m', where, sortSql[q.sort] ?? sortSql['-createdAt']!, replacements, q)
 }
 
 interface SentMailRow {

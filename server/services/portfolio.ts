@@ -8,6 +8,7 @@ import type { ListResult } from '../../shared/schemas/common'
 import type { DueState, PortfolioCoveringRow, PortfolioSummary, PortfolioUnitRow } from '../../shared/types/jobs'
 import { logActivity } from './activity'
 import { appUrl, sendRecordedMail } from './mail'
+import { paged } from './paged'
 import { countHits, envLimit, minutesText, refundHits } from './rate-limits'
 import { clientLimit, likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
@@ -90,16 +91,11 @@ export async function portfolioCoverings(db: Sequelize, actor: Actor, q: Filters
   if (q.q) { where.push('(c.ref ILIKE :q OR u.ref ILIKE :q OR o.room ILIKE :q)'); replacements.q = likePattern(q.q) }
   // Within one need, the longest-overdue first, then by reference.
   const order = orderBy(q.sort, { need, due: 'd.due', ref: 'c.ref' }, 'd.due ASC NULLS FIRST, c.ref, c.id')
-  const [items, [count]] = await Promise.all([
-    db.query<PortfolioCoveringRow>(`SELECT c.id, c.ref, s.id AS "siteId", s.name AS "siteName", u.id AS "unitId", u.ref AS "unitRef", o.room,
+  return paged<PortfolioCoveringRow>(db, `c.id, c.ref, s.id AS "siteId", s.name AS "siteName", u.id AS "unitId", u.ref AS "unitRef", o.room,
         c.product_type AS "productType", c.control, c.last_verdict AS "lastVerdict", c.last_inspected_at AS "lastInspectedAt",
         to_char(d.due, 'YYYY-MM-DD') AS "dueOn", ${dueState} AS due, ${need} AS need,
-        (SELECT count(*)::int FROM fixes fx WHERE fx.covering_id = c.id AND fx.status = 'open') AS "openRemedies"
-      FROM ${coveringFrom} WHERE ${where.join(' AND ')} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
-    { type: QueryTypes.SELECT, replacements: { ...replacements, limit: q.pageSize, offset: (q.page - 1) * q.pageSize } }),
-    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM ${coveringFrom} WHERE ${where.join(' AND ')}`, { type: QueryTypes.SELECT, replacements }),
-  ])
-  return { items, total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
+        (SELECT count(*)::int FROM fixes fx WHERE fx.covering_id = c.id AND fx.status = 'open') AS "openRemedies"`,
+  coveringFrom, where, order, replacements, q)
 }
 
 export class AuditRequestRefused extends Refusal {

@@ -7,6 +7,7 @@ import type { CheckChange, CheckChangeRow, RecheckCounts, RecheckScope, RecheckS
 import type { Verdict } from '../../shared/types/register'
 import type { ListResult } from '../../shared/schemas/common'
 import { logActivity } from './activity'
+import { paged } from './paged'
 import { pushColumns } from './pg-copy'
 import { JobFailed, createJob, enqueueJob, jobJson } from './jobs'
 import type { JobContext } from './jobs'
@@ -176,17 +177,11 @@ export async function listRechecks(db: Sequelize, actor: Actor, q: { page: numbe
 
 export async function listCheckChanges(db: Sequelize, jobId: number, q: { page: number, pageSize: number, change?: CheckChange }): Promise<ListResult<CheckChangeRow>> {
   const where = ['r.job_id = :jobId', q.change ? 'r.change = :change' : `r.change <> 'unchanged'`]
-  const replacements = { jobId, change: q.change, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
+  const replacements = { jobId, change: q.change }
   const from = `check_results r JOIN coverings c ON c.id = r.covering_id JOIN sites s ON s.id = r.site_id JOIN openings o ON o.id = c.opening_id
     JOIN units u ON u.id = o.unit_id JOIN inspections i ON i.id = r.inspection_id`
-  const [items, [count]] = await Promise.all([
-    db.query<CheckChangeRow & { previousVerdict: Verdict | null }>(`SELECT r.covering_id AS "coveringId", c.ref AS "coveringRef", r.site_id AS "siteId", s.name AS "siteName",
+  return paged<CheckChangeRow & { previousVerdict: Verdict | null }>(db, `r.covering_id AS "coveringId", c.ref AS "coveringRef", r.site_id AS "siteId", s.name AS "siteName",
         u.ref AS "unitRef", o.room, r.previous_verdict AS "previousVerdict", r.verdict, r.change, r.rules_version AS "rulesVersion", r.inspection_id AS "inspectionId",
-        i.inspected_at AS "inspectedAt", r.failed_clauses AS "failedClauses", r.missing_fields AS "missingFields"
-      FROM ${from} WHERE ${where.join(' AND ')}
-      ORDER BY array_position(ARRAY['newly_failing','now_incomplete','newly_passing','other','unchanged'], r.change), c.ref, r.id LIMIT :limit OFFSET :offset`,
-    { type: QueryTypes.SELECT, replacements }),
-    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM check_results r WHERE ${where.join(' AND ')}`, { type: QueryTypes.SELECT, replacements }),
-  ])
-  return { items, total: count?.total ?? 0, page: q.page, pageSize: q.pageSize }
+        i.inspected_at AS "inspectedAt", r.failed_clauses AS "failedClauses", r.missing_fields AS "missingFields"`,
+  from, where, `array_position(ARRAY['newly_failing','now_incomplete','newly_passing','other','unchanged'], r.change), c.ref, r.id`, replacements, q, 'check_results r')
 }

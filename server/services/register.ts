@@ -1,24 +1,13 @@
 import { QueryTypes } from 'sequelize'
 import type { Sequelize } from 'sequelize'
-import type { ListResult } from '../../shared/schemas/common'
 import type { ClientRow, CoveringDetail, CoveringRemoval, CoveringRow, FindingRow, InspectionRow, OpeningRow, SiteDetail, SiteRow, UnitRow } from '../../shared/types/register'
+import { paged } from './paged'
 import { clientLimit, likePattern, orderBy, siteScopeSql } from './scope'
 import type { Actor } from './scope'
 
 // Read side of the register: paged, sorted, filtered lists scoped to what the actor may see.
 
 interface Page { page: number, pageSize: number, sort: string, q?: string }
-
-async function paged<T extends object>(db: Sequelize, select: string, from: string, where: string[], order: string,
-  replacements: Record<string, unknown>, p: Page): Promise<ListResult<T>> {
-  const whereSql = where.length ? `WHERE ${where.join(' AND ')}` : ''
-  const [items, [count]] = await Promise.all([
-    db.query<T>(`SELECT ${select} FROM ${from} ${whereSql} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
-      { type: QueryTypes.SELECT, replacements: { ...replacements, limit: p.pageSize, offset: (p.page - 1) * p.pageSize } }),
-    db.query<{ total: number }>(`SELECT count(*)::int AS total FROM ${from} ${whereSql}`, { type: QueryTypes.SELECT, replacements }),
-  ])
-  return { items, total: count?.total ?? 0, page: p.page, pageSize: p.pageSize }
-}
 
 const verdictCounts = `
   count(c.id)::int AS "coveringCount",

@@ -5,6 +5,7 @@ import type { SendMailOptions } from 'nodemailer'
 import { z } from 'zod'
 import { logActivity } from './activity'
 import { recordSentMail, sendMail } from './mail'
+import { paged } from './paged'
 import { REPORT_CAUTION, REPORT_HAZARD, buildSiteReport, formatDay, reportFileName } from './report'
 import { StorageUnavailableError, deleteObject, getObjectBytes, putObject } from './storage'
 
@@ -62,13 +63,8 @@ export async function getDispatch(db: Sequelize, id: number): Promise<DispatchJs
 
 /** The reports sent for a site, newest first. Callers check tenancy first. */
 export async function listDispatches(db: Sequelize, siteId: number, p: { page: number, pageSize: number }) {
-  const [items, [count]] = await Promise.all([
-    db.query<DispatchJson>(`SELECT ${dispatchSelect} FROM report_dispatches d JOIN users u ON u.id = d.sent_by
-      WHERE d.site_id = :siteId ORDER BY d.created_at DESC, d.id DESC LIMIT :limit OFFSET :offset`,
-    { type: QueryTypes.SELECT, replacements: { siteId, limit: p.pageSize, offset: (p.page - 1) * p.pageSize } }),
-    db.query<{ total: number }>('SELECT count(*)::int AS total FROM report_dispatches WHERE site_id = :siteId', { type: QueryTypes.SELECT, replacements: { siteId } }),
-  ])
-  return { items, total: count?.total ?? 0, page: p.page, pageSize: p.pageSize }
+  return paged<DispatchJson>(db, dispatchSelect, 'report_dispatches d JOIN users u ON u.id = d.sent_by', ['d.site_id = :siteId'],
+    'd.created_at DESC, d.id DESC', { siteId }, p, 'report_dispatches d')
 }
 
 /** What a message needs besides the PDF, read back from the dispatch so a retry writes the same e-mail. */
