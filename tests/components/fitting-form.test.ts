@@ -11,7 +11,7 @@ import { signedInAs } from './setup'
 // The fitting form's live check: the rulebook runs in the browser on every change, as sign-off will run it.
 // Figures from the Australian Competition and Consumer Commission's Safety Standard (Corded Internal Window
 // Coverings) 2014, s 6(1)(a): a loop that can be pulled out more than 220 mm needs a tension device (see
-// /work/shared/RULES-REFERENCE.md and rules/au.ts).
+// the AU rule set, rules/sets/au.ts).
 
 const covering: CoveringDetail = {
   id: 41, siteId: 3, siteName: 'Wattle Court', jurisdiction: 'AU', openingId: 9, openingRef: 'W2', room: 'Bedroom 2', unitId: 4, unitRef: '4',
