@@ -15,8 +15,19 @@ const measured = { product_type: 'roller', control: 'chain_loop', made_to: 'cust
 const site = { site_ref: 'BRW', site_name: 'Browser Mews', address: '12 Pane Street, Kellerton NSW 2999', jurisdiction: 'AU', premises: 'rental_home' }
 
 async function choose(page: Page, csv: string, name: string) {
-  await page.getByLabel('CSV file').setInputFiles({ name, mimeType: 'text/csv', buffer: Buffer.from(csv) })
-  await page.getByRole('button', { name: 'Check the file' }).click()
+  // A file chosen before the page has hydrated is lost to Vue; so, as a person would, choose it again if no check starts.
+  await page.waitForLoadState('networkidle')
+  for (let attempt = 1; ; attempt++) {
+    await page.getByLabel('CSV file').setInputFiles({ name, mimeType: 'text/csv', buffer: Buffer.from(csv) })
+    await page.getByRole('button', { name: 'Check the file' }).click()
+    try {
+      await page.getByRole('heading', { name: new RegExp(`: ${name.replace(/\./g, '\\.')}$`) }).waitFor({ timeout: 10_000 })
+      return
+    }
+    catch (err) {
+      if (attempt >= 3) throw err
+    }
+  }
 }
 
 /** Waits for the named progress bar to reach 100 and its job to finish. */
